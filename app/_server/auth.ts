@@ -1,0 +1,64 @@
+import NextAuth, { CredentialsSignin, type DefaultSession } from "next-auth";
+import Credentials from "next-auth/providers/credentials";
+import { z } from "zod";
+import type { Role } from "@/db/schema";
+import { checkPassword } from "./sign-in-throttle";
+
+declare module "next-auth" {
+  interface Session {
+    user: { id: string; role: Role; orgId: number } & DefaultSession["user"];
+  }
+  interface User {
+    role?: Role;
+    orgId?: number;
+  }
+}
+
+/** Raised to the sign-in form; `code` is what the form shows. */
+export class SignInRefused extends CredentialsSignin {
+  constructor(code: string) {
+    super(code);
+    this.code = code;
+  }
+}
+
+const credentialsSchema = z.object({
+  email: z.email().transform((e) => e.toLowerCase()),
+  password: z.string().min(1).max(200),
+});
+
+export const { handlers, auth, signIn, signOut } = NextAuth({
+  trustHost: true,
+  secret: process.env.AUTH_SECRET ?? "tidewell-demo-secret-change-me-in-production-000",
+  session: { strategy: "jwt", maxAge: 12 * 60 * 60 },
+  pages: { signIn: "/sign-in" },
+  providers: [
+    Credentials({
+      credentials: { email: { label: "E-mail" }, password: { label: "Password", type: "password" } },
+      async authorize(raw) {
+        const parsed = credentialsSchema.safeParse(raw);
+        if (!parsed.success) throw new SignInRefused("invalid-input");
+        const result = await checkPassword(parsed.data.email, parsed.data.password);
+        if (!result.ok) throw new SignInRefused(result.code);
+        const u = result.user;
+        return { id: String(u.id), email: u.email, name: u.name, role: u.role, orgId: u.orgId };
+      },
+    }),
+  ],
+  callbacks: {
+    jwt({ token, user }) {
+      if (user) {
+        token.uid = user.id;
+        token.role = user.role;
+        token.orgId = user.orgId;
+      }
+      return token;
+    },
+    session({ session, token }) {
+      session.user.id = String(token.uid);
+      session.user.role = token.role as Role;
+      session.user.orgId = Number(token.orgId);
+      return session;
+    },
+  },
+});

@@ -1,0 +1,3 @@
+import { handlers } from "@/app/_server/auth";
+
+export const { GET, POST } = handlers;

@@ -1,0 +1,14 @@
+"use client";
+import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
+import { useState } from "react";
+import { Toaster } from "sonner";
+
+export function Providers({ children }: { children: React.ReactNode }) {
+  const [client] = useState(() => new QueryClient({ defaultOptions: { queries: { staleTime: 10_000, refetchOnWindowFocus: false } } }));
+  return (
+    <QueryClientProvider client={client}>
+      {children}
+      <Toaster position="top-center" richColors closeButton />
+    </QueryClientProvider>
+  );
+}

@@ -1,0 +1,10 @@
+import type { NextConfig } from "next";
+
+const nextConfig: NextConfig = {
+  // Native and stream-heavy server packages stay outside the bundle.
+  serverExternalPackages: ["@libsql/client", "libsql", "mqtt", "nodemailer", "bcryptjs"],
+  poweredByHeader: false,
+  typedRoutes: false,
+};
+
+export default nextConfig;

@@ -1,0 +1,57 @@
+// `npm run demo`: migrate, seed if empty, build, then run every process of the demo under one
+// supervisor on loopback. Ctrl-C stops them all.
+import fs from "node:fs";
+import path from "node:path";
+import { spawnSync } from "node:child_process";
+import concurrently from "concurrently";
+import { applyMigrations } from "../db/migrate";
+import { databaseUrl, getClient, getDb } from "../db/client";
+import { seedIfEmpty } from "../db/seed";
+import { DEMO_PASSWORD, DEMO_USERS } from "../db/seed/scenario";
+
+const PORT = Number(process.env.PORT ?? 3000);
+const env = {
+  TIDEWELL_DEMO: "1",
+  NEXT_TELEMETRY_DISABLED: "1",
+  DATABASE_URL: databaseUrl(),
+  SMTP_URL: process.env.SMTP_URL ?? "smtp://127.0.0.1:2525",
+  MAIL_SINK_URL: process.env.MAIL_SINK_URL ?? "http://127.0.0.1:2526",
+  APP_URL: process.env.APP_URL ?? `http://127.0.0.1:${PORT}`,
+};
+Object.assign(process.env, env);
+
+await applyMigrations();
+const credentialsFile = path.join(process.cwd(), "data", "device-credentials.json");
+if (await seedIfEmpty(getDb(), getClient(), { credentialsFile })) console.log("[demo] seeded the demo farm");
+getClient().close();
+
+if (process.env.DEMO_SKIP_BUILD !== "1" || !fs.existsSync(".next/BUILD_ID")) {
+  console.log("[demo] building the web app (about a minute)…");
+  const build = spawnSync("npx", ["next", "build"], { stdio: "inherit", env: { ...process.env, ...env } });
+  if (build.status !== 0) process.exit(build.status ?? 1);
+}
+
+const commands = [
+  { name: "mail", command: "tsx scripts/mail-sink.ts", prefixColor: "magenta" },
+  { name: "broker", command: "tsx ingest/broker-main.ts", prefixColor: "blue", when: "ingest/broker-main.ts" },
+  { name: "ingest", command: "tsx ingest/main.ts", prefixColor: "cyan", when: "ingest/main.ts" },
+  { name: "sim", command: "tsx scripts/simulator/main.ts", prefixColor: "yellow", when: "scripts/simulator/main.ts" },
+  { name: "web", command: `next start -H 127.0.0.1 -p ${PORT}`, prefixColor: "green" },
+].filter((c) => !c.when || fs.existsSync(c.when));
+
+const { result } = concurrently(
+  commands.map(({ name, command, prefixColor }) => ({ name, command, prefixColor, env })),
+  { killOthersOn: ["failure"], prefix: "name", restartTries: 0 },
+);
+
+setTimeout(() => {
+  console.log(`\n  Tidewell demo is running at ${env.APP_URL}\n`);
+  console.log(`  Sign in with any of these (password: ${DEMO_PASSWORD}):`);
+  for (const u of DEMO_USERS) console.log(`    ${u.role.padEnd(14)} ${u.email}`);
+  console.log(`\n  Demo mailbox (owner): ${env.APP_URL}/mailbox · Ctrl-C stops everything.\n`);
+}, 4000);
+
+result.then(
+  () => process.exit(0),
+  () => process.exit(0),
+);

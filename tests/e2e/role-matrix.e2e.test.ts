@@ -1,0 +1,124 @@
+// Every route handler under app/api, called as anonymous, each role and a user of another
+// organisation. Routes are found on disk, so a new route that is not listed here (or not guarded) fails.
+import fs from "node:fs";
+import path from "node:path";
+import { beforeAll, describe, expect, inject, it } from "vitest";
+import { createClient } from "@libsql/client";
+import type { Role } from "@/db/schema";
+import { ROOT } from "./stack";
+import { HttpSession, sessionFor } from "./session";
+import { OTHER_ORG_USER } from "./fixtures";
+
+const ALL: Role[] = ["owner", "grower", "night_manager"];
+const CHANGERS: Role[] = ["owner", "grower"];
+const OWNER: Role[] = ["owner"];
+
+/** Who may call each route. Public routes (sign-in machinery, signed links) are listed as "public". */
+const ACCESS: Record<string, Role[] | "public"> = {
+  "GET /api/auth/[...nextauth]": "public",
+  "POST /api/auth/[...nextauth]": "public",
+  "GET /api/me": ALL,
+  "GET /api/tanks": ALL,
+  "GET /api/tanks/[id]": ALL,
+  "GET /api/users": OWNER,
+  "POST /api/incidents/[id]/acknowledge": ALL,
+  "GET /api/ingest/health": ALL,
+};
+void CHANGERS;
+
+/** Which table a dynamic segment's sample id comes from, keyed by the segment before it. */
+const SAMPLE_TABLE: Record<string, string> = {
+  tanks: "tanks",
+  incidents: "incidents",
+  probes: "probes",
+  holds: "holds",
+  runs: "calibration_runs",
+  users: "users",
+  sites: "sites",
+  devices: "devices",
+};
+
+function findRoutes(dir = path.join(ROOT, "app/api")): { template: string; methods: string[] }[] {
+  const out: { template: string; methods: string[] }[] = [];
+  for (const entry of fs.readdirSync(dir, { withFileTypes: true })) {
+    const full = path.join(dir, entry.name);
+    if (entry.isDirectory()) out.push(...findRoutes(full));
+    else if (entry.name === "route.ts") {
+      const src = fs.readFileSync(full, "utf8");
+      const methods = new Set<string>();
+      for (const m of src.matchAll(/export\s+(?:const|async function|function)\s+(GET|POST|PUT|PATCH|DELETE)\b/g)) methods.add(m[1]);
+      for (const m of src.matchAll(/export\s+const\s+\{([^}]+)\}/g)) for (const name of m[1].split(",")) if (/^(GET|POST|PUT|PATCH|DELETE)$/.test(name.trim())) methods.add(name.trim());
+      const template = "/" + path.relative(path.join(ROOT, "app"), path.dirname(full)).split(path.sep).join("/");
+      out.push({ template, methods: [...methods] });
+    }
+  }
+  return out;
+}
+
+const routes = findRoutes().flatMap((r) => r.methods.map((method) => ({ method, template: r.template, key: `${method} ${r.template}` })));
+
+describe("role matrix", () => {
+  const baseURL = inject("baseURL");
+  const sessions = new Map<string, HttpSession>();
+  const sample = new Map<string, number>();
+
+  beforeAll(async () => {
+    for (const role of ALL) sessions.set(role, await sessionFor(baseURL, role));
+    sessions.set("other-org", await new HttpSession(baseURL).signIn(OTHER_ORG_USER.email, OTHER_ORG_USER.password));
+    sessions.set("anonymous", new HttpSession(baseURL));
+    const db = createClient({ url: inject("databaseUrl") });
+    const org = await db.execute("SELECT id FROM organisations ORDER BY id LIMIT 1");
+    const orgId = Number(org.rows[0].id);
+    for (const [segment, table] of Object.entries(SAMPLE_TABLE)) {
+      const scoped =
+        table === "users" || table === "sites" || table === "devices" || table === "incidents"
+          ? `SELECT id FROM ${table} WHERE org_id = ${orgId} ORDER BY id LIMIT 1`
+          : table === "tanks"
+            ? `SELECT t.id FROM tanks t JOIN sites s ON s.id = t.site_id WHERE s.org_id = ${orgId} ORDER BY t.id LIMIT 1`
+            : `SELECT id FROM ${table} ORDER BY id LIMIT 1`;
+      const r = await db.execute(scoped);
+      if (r.rows[0]) sample.set(segment, Number(r.rows[0].id));
+    }
+    db.close();
+  });
+
+  function concrete(template: string) {
+    const parts = template.split("/");
+    return parts
+      .map((p, i) => {
+        if (!p.startsWith("[")) return p;
+        if (p.startsWith("[...")) return "session";
+        const id = sample.get(parts[i - 1]);
+        if (id === undefined) throw new Error(`No sample id for ${template}: add its segment to SAMPLE_TABLE`);
+        return String(id);
+      })
+      .join("/");
+  }
+
+  it("lists every route handler", () => {
+    const unlisted = routes.filter((r) => !(r.key in ACCESS)).map((r) => r.key);
+    expect(unlisted, "add these routes to ACCESS in the role matrix").toEqual([]);
+    expect(routes.length).toBeGreaterThan(3);
+  });
+
+  for (const route of routes) {
+    const access = ACCESS[route.key];
+    if (access === "public" || access === undefined) continue;
+    it(`${route.key}`, async () => {
+      const url = concrete(route.template);
+      const init = route.method === "GET" ? {} : { method: route.method, headers: { "content-type": "application/json" }, body: "{}" };
+      const anon = await sessions.get("anonymous")!.fetch(url, init);
+      expect(anon.status, `anonymous ${route.key}`).toBe(401);
+      for (const role of ALL) {
+        const res = await sessions.get(role)!.fetch(url, init);
+        if (access.includes(role)) expect([401, 403], `${role} ${route.key} → ${res.status}`).not.toContain(res.status);
+        else expect(res.status, `${role} ${route.key}`).toBe(403);
+        expect(res.status, `${role} ${route.key}`).toBeLessThan(500);
+      }
+      const other = await sessions.get("other-org")!.fetch(url, init);
+      const text = await other.text();
+      if (route.template.includes("[")) expect(other.status, `other organisation ${route.key}`).toBe(404);
+      else expect(text, `other organisation sees none of this farm's data (${route.key})`).not.toMatch(/Larkspur|Butterhead|grower@larkspur/);
+    });
+  }
+});
