@@ -23,7 +23,7 @@ export interface Proc {
   log: string;
 }
 
-export function startProcess(name: string, cmd: string, args: string[], env: NodeJS.ProcessEnv, logDir: string): Proc {
+export function startProcess(name: string, cmd: string, args: string[], env: Record<string, string>, logDir: string): Proc {
   const logFile = path.join(logDir, `${name}.log`);
   const out = fs.openSync(logFile, "a");
   const child = spawn(cmd, args, { cwd: ROOT, env: { ...process.env, ...env }, stdio: ["ignore", out, out], detached: true });
