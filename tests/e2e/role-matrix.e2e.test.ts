@@ -1,3 +1,4 @@
+/// <reference types="vite/client" />
 // Every route handler under app/api, called as anonymous, each role and a user of another
 // organisation. Routes are found on disk, so a new route that is not listed here (or not guarded) fails.
 import fs from "node:fs";
@@ -12,12 +13,10 @@ import type { AccessTable } from "./access/roles";
 
 // Each area of the product lists its routes in tests/e2e/access/<area>.ts.
 const ALL: Role[] = ["owner", "grower", "night_manager"];
-const ACCESS: AccessTable = {};
-for (const file of fs.readdirSync(path.join(import.meta.dirname, "access"))) {
-  if (file === "roles.ts" || !file.endsWith(".ts")) continue;
-  const mod = (await import(`./access/${file.replace(/\.ts$/, "")}`)) as { ACCESS: AccessTable };
-  Object.assign(ACCESS, mod.ACCESS);
-}
+const ACCESS: AccessTable = Object.assign(
+  {},
+  ...Object.values(import.meta.glob<{ ACCESS: AccessTable }>(["./access/*.ts", "!./access/roles.ts"], { eager: true })).map((m) => m.ACCESS),
+);
 
 /** Which table a dynamic segment's sample id comes from, keyed by the segment before it. */
 const SAMPLE_TABLE: Record<string, string> = {
