@@ -165,6 +165,11 @@ export const calibrationRuns = sqliteTable(
     holdId: integer("hold_id"),
     uploadId: integer("upload_id"),
     note: text("note"),
+    // Guided runs: the buffers or standards chosen at the start, in order (ids or JSON tables),
+    // and the steps confirmed so far, so a closed browser reloads into the right step.
+    plannedStandards: text("planned_standards", { mode: "json" }).$type<string[]>().notNull().default([]),
+    cleanedAt: integer("cleaned_at"),
+    asFoundSkipped: integer("as_found_skipped", { mode: "boolean" }).notNull().default(false),
   },
   (t) => [index("runs_probe_effective_idx").on(t.probeId, t.effectiveAt), index("runs_tank_idx").on(t.tankId)],
 );
@@ -236,6 +241,10 @@ export const holds = sqliteTable(
     releasedAt: integer("released_at"),
     releasedBy: integer("released_by").references(() => users.id),
     releaseKind: text("release_kind", { enum: ["manual", "expired"] }),
+    // When the retained dosing-inhibit command (and the later resume) reached the broker; null
+    // while unsent, so the ingest retries a command the web could not deliver.
+    dosingInhibitSentAt: integer("dosing_inhibit_sent_at"),
+    dosingResumeSentAt: integer("dosing_resume_sent_at"),
   },
   (t) => [index("holds_tank_idx").on(t.tankId, t.placedAt)],
 );
@@ -356,6 +365,8 @@ export const spotChecks = sqliteTable(
     takenAt: integer("taken_at").notNull(),
     meterValue: real("meter_value").notNull(),
     tidewellValue: real("tidewell_value"),
+    // When the Tidewell reading compared against was taken (nearest within ±2 min).
+    tidewellTs: integer("tidewell_ts"),
     difference: real("difference"),
     pastTolerance: integer("past_tolerance", { mode: "boolean" }).notNull().default(false),
     enteredBy: integer("entered_by").references(() => users.id),

@@ -13,7 +13,7 @@ export const NAV_ITEMS: NavItem[] = [
   { href: "/tanks", label: "Tanks", icon: "tanks", roles: ["owner", "grower", "night_manager"] },
   { href: "/calibrations", label: "Calibrations", icon: "calibrations", roles: ["owner", "grower", "night_manager"] },
   { href: "/incidents", label: "Incidents", icon: "incidents", roles: ["owner", "grower", "night_manager"] },
-  { href: "/settings", label: "Settings", icon: "settings", roles: ["owner", "grower"] },
+  { href: "/settings", label: "Settings", icon: "settings", roles: ["owner", "grower", "night_manager"] },
   { href: "/mailbox", label: "Demo mailbox", icon: "mailbox", roles: ["owner"], demoOnly: true },
 ];
 

@@ -17,7 +17,7 @@ const STYLE: Record<TankStateKind, { icon: typeof CircleCheck; cls: string }> = 
 export function StateBadge({ state, large = false }: { state: TankStateKind; large?: boolean }) {
   const { icon: Icon, cls } = STYLE[state];
   return (
-    <span data-state={state} className={cn("inline-flex items-center gap-1.5 rounded-full font-semibold", large ? "px-3 py-1 text-sm" : "px-2 py-0.5 text-xs", cls)}>
+    <span data-state={state} className={cn("inline-flex shrink-0 items-center gap-1.5 whitespace-nowrap rounded-full font-semibold", large ? "px-3 py-1 text-sm" : "px-2 py-0.5 text-xs", cls)}>
       <Icon className={large ? "size-4" : "size-3.5"} aria-hidden />
       {STATE_LABEL[state]}
     </span>

@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { format } from "date-fns";
 import { PauseCircle } from "lucide-react";
 import type { TankOverview } from "@/db/queries/overview";
 import { formatEc, ecInUnit, ecUnitLabel, type EcUnit } from "@/lib/display/units";
@@ -6,6 +7,9 @@ import { measureState, tankStates } from "@/lib/display/tank-state";
 import { CalibrationBadge, StateBadge } from "./state-badge";
 import { BandGauge } from "./band-gauge";
 import { cn } from "@/components/ui/cn";
+import { TankTileActions } from "@/components/incidents/tank-tile-actions";
+import { Sparkline } from "@/components/charts/sparkline";
+import type { TankSeries } from "@/app/api/tanks/[id]/series/load-series";
 
 export const STALE_AFTER_MS = 2 * 60_000;
 
@@ -35,7 +39,24 @@ export function toStateInput(t: TankOverview, now: number) {
 const MEASURE_LABEL = { ph: "pH", ec: "EC", temp: "Temp" } as const;
 const SIDE_WORD = { low: "low", high: "high", suspect: "suspect", "no-data": "no data", "in-band": "" } as const;
 
-export function TankTile({ tank, now, ecUnit, wall = false }: { tank: TankOverview; now: number; ecUnit: EcUnit; wall?: boolean }) {
+/**
+ * One tank on the wall: current pH, EC and temperature against the target band, a half-hour trend
+ * per measure, and the tank's state in words, shape and colour. Renders on the server (tank list)
+ * and inside the live wall, where `spark` is kept current from the stream.
+ */
+export function TankTile({
+  tank,
+  now,
+  ecUnit,
+  wall = false,
+  spark,
+}: {
+  tank: TankOverview;
+  now: number;
+  ecUnit: EcUnit;
+  wall?: boolean;
+  spark?: Pick<TankSeries, "series" | "from" | "to">;
+}) {
   const input = toStateInput(tank, now);
   const states = tankStates(input);
   const headline = states[0];
@@ -45,13 +66,16 @@ export function TankTile({ tank, now, ecUnit, wall = false }: { tank: TankOvervi
       data-tank={tank.id}
       data-tank-state={headline}
       className={cn(
-        "flex flex-col rounded-xl border bg-paper-raised p-4",
+        "flex min-w-0 flex-col rounded-xl border bg-paper-raised p-4",
         alarming ? "border-bad/60 ring-2 ring-bad/30" : headline === "held" ? "border-held/40 border-dashed" : "border-paper-line",
+        // Shape as well as colour: an alarming tank carries a thick bar down its left edge.
+        alarming && "border-l-8 border-l-bad",
+        wall && "p-5",
       )}
     >
       <header className="flex items-start justify-between gap-2">
         <div className="min-w-0">
-          <Link href={`/tanks/${tank.id}`} className={cn("block truncate font-semibold hover:underline", wall ? "text-xl" : "text-lg")}>
+          <Link href={`/tanks/${tank.id}`} className={cn("block truncate font-semibold hover:underline", wall ? "text-2xl" : "text-lg")}>
             {tank.name}
           </Link>
           <p className="truncate text-xs text-ink-soft">
@@ -62,7 +86,7 @@ export function TankTile({ tank, now, ecUnit, wall = false }: { tank: TankOvervi
         <StateBadge state={headline} large={wall} />
       </header>
 
-      <dl className="mt-4 grid grid-cols-3 gap-3">
+      <dl className="mt-4 mb-4 grid grid-cols-3 gap-3">
         {input.measures.map((m) => {
           const state = measureState(m);
           const display =
@@ -78,13 +102,26 @@ export function TankTile({ tank, now, ecUnit, wall = false }: { tank: TankOvervi
           const out = state !== "in-band";
           return (
             <div key={m.kind} data-measure={m.kind} data-measure-state={state}>
-              <dt className="text-xs font-semibold tracking-wide text-ink-soft">
+              <dt className={cn("font-semibold tracking-wide text-ink-soft", wall ? "text-base" : "text-xs")}>
                 {MEASURE_LABEL[m.kind]}
                 <span className="ml-1 normal-case tracking-normal text-ink-faint">{m.kind === "ec" ? ecUnitLabel(ecUnit) : m.kind === "temp" ? "°C" : ""}</span>
               </dt>
-              <dd className={cn("num font-semibold leading-tight", wall ? "text-4xl" : "text-3xl", out && !tank.hold && state !== "no-data" ? "text-bad" : "text-ink")}>
+              <dd className={cn("num font-semibold leading-tight", wall ? "text-5xl" : "text-3xl", out && !tank.hold && state !== "no-data" ? "text-bad" : "text-ink")}>
                 {display}
               </dd>
+              {spark ? (
+                <div className="mt-1.5">
+                  <Sparkline
+                    buckets={spark.series[m.kind]}
+                    from={spark.from}
+                    to={spark.to}
+                    band={[m.min, m.max]}
+                    convert={m.kind === "ec" ? (v) => ecInUnit(v, ecUnit) : undefined}
+                    label={`${MEASURE_LABEL[m.kind]} over the last 30 minutes`}
+                    large={wall}
+                  />
+                </div>
+              ) : null}
               <div className="mt-1.5">
                 <BandGauge
                   value={m.value === null ? null : m.kind === "ec" ? ecInUnit(m.value, ecUnit) : m.value}
@@ -93,7 +130,7 @@ export function TankTile({ tank, now, ecUnit, wall = false }: { tank: TankOvervi
                   label={`${MEASURE_LABEL[m.kind]} target band ${band}`}
                 />
               </div>
-              <p className="num mt-1 text-[11px] text-ink-faint">
+              <p className={cn("num mt-1 text-ink-faint", wall ? "text-sm" : "text-[11px]")}>
                 {out && SIDE_WORD[state] ? <span className="font-semibold text-bad">{SIDE_WORD[state]} · </span> : null}
                 band {band}
               </p>
@@ -102,7 +139,7 @@ export function TankTile({ tank, now, ecUnit, wall = false }: { tank: TankOvervi
         })}
       </dl>
 
-      <footer className="mt-4 flex flex-wrap items-center gap-x-4 gap-y-1 border-t border-paper-line pt-3 text-xs">
+      <footer className={cn("mt-auto flex flex-wrap items-center gap-x-4 gap-y-1 border-t border-paper-line pt-3", wall ? "text-sm" : "text-xs")}>
         {tank.probes
           .filter((p) => p.kind !== "temp")
           .map((p) => (
@@ -111,8 +148,8 @@ export function TankTile({ tank, now, ecUnit, wall = false }: { tank: TankOvervi
             </span>
           ))}
         {tank.hold ? (
-          <span className="inline-flex items-center gap-1 font-medium text-held">
-            <PauseCircle className="size-3.5" aria-hidden /> Held until {new Date(tank.hold.plannedEndAt).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit" })}
+          <span className="inline-flex items-center gap-1 font-medium text-held" suppressHydrationWarning>
+            <PauseCircle className="size-3.5" aria-hidden /> Held until {format(tank.hold.plannedEndAt, "HH:mm")}
           </span>
         ) : null}
         {tank.openIncidents.length ? (
@@ -121,6 +158,7 @@ export function TankTile({ tank, now, ecUnit, wall = false }: { tank: TankOvervi
           </Link>
         ) : null}
         {states.includes("stale") ? <span className="font-medium text-warn">No reading for over 2 min</span> : null}
+        <TankTileActions tank={tank} />
       </footer>
     </article>
   );

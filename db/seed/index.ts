@@ -17,7 +17,8 @@ import {
   solutionTempC,
   type Electrode,
 } from "../../scripts/simulator/model";
-import { CROP_PRESETS, DEMO_ORG, DEMO_PASSWORD, DEMO_SITES, DEMO_USERS, PAST_INCIDENTS, type TankSpec } from "./scenario";
+import { CROP_PRESETS } from "../../lib/settings/crop-presets";
+import { DEMO_ORG, DEMO_PASSWORD, DEMO_SITES, DEMO_USERS, PAST_INCIDENTS, type TankSpec } from "./scenario";
 
 const STEP_MS = 5 * 60_000;
 const HISTORY_DAYS = 30;

@@ -1,5 +1,6 @@
 // The demo scenario: an invented farm, for the demo only. Every value here is made up.
 import type { Role } from "../schema";
+import type { CropPreset } from "../../lib/settings/crop-presets";
 
 export const DEMO_PASSWORD = "tidewell-demo";
 
@@ -10,16 +11,6 @@ export const DEMO_USERS: { email: string; name: string; role: Role }[] = [
   { email: "grower@larkspur.example", name: "Tomas Reyes", role: "grower" },
   { email: "night@larkspur.example", name: "Priya Lindqvist", role: "night_manager" },
 ];
-
-/** Target bands per crop (DOMAIN.md section 4: common practice, from memory; growers edit them). */
-export const CROP_PRESETS = {
-  "leafy greens": { phMin: 5.5, phMax: 6.5, ecMinUs: 800, ecMaxUs: 1200 },
-  "basil and herbs": { phMin: 5.5, phMax: 6.5, ecMinUs: 1000, ecMaxUs: 1600 },
-  strawberry: { phMin: 5.5, phMax: 6.2, ecMinUs: 1000, ecMaxUs: 1500 },
-  "tomato (fruiting)": { phMin: 5.5, phMax: 6.5, ecMinUs: 2000, ecMaxUs: 3500 },
-  cucumber: { phMin: 5.5, phMax: 6.0, ecMinUs: 1700, ecMaxUs: 2500 },
-} as const;
-export type CropPreset = keyof typeof CROP_PRESETS;
 
 /** How the pH probe's calibration record looks at seed time. */
 export type CalibrationStory =

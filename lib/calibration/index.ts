@@ -48,3 +48,6 @@ export { fitPhStability, type PhSample, type Stability, type StabilityOptions } 
 export { suggestNextDue, type AsFoundError, type NextDue, type NextDueInput } from "./drift";
 export { calibrationStatus, type CalibrationStatus, type StatusInput } from "./status";
 export { DAY_MS } from "./time";
+export { fitEcStability, type ConductanceSample, type EcStabilityOptions } from "./ec-stability";
+export { runProgress, type RunProgress, type RunProgressInput, type RunStep, type RunStepKey } from "./run-steps";
+export { parseStandardText, standardLabel, EC_STANDARD_LABELS } from "./standard-text";

@@ -2,13 +2,15 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import type { TestProject } from "vitest/node";
-import { ROOT, freePort, startProcess, stopProcess, waitForHttp, type Proc } from "./stack";
+import { ROOT, freePort, startProcess, stopProcess, waitFor, waitForHttp, type Proc } from "./stack";
 
 declare module "vitest" {
   export interface ProvidedContext {
     baseURL: string;
     databaseUrl: string;
     workDir: string;
+    mqttUrl: string;
+    mailSinkURL: string;
   }
 }
 
@@ -18,25 +20,77 @@ export default async function setup(project: TestProject) {
   const workDir = fs.mkdtempSync(path.join(os.tmpdir(), "tidewell-e2e-"));
   const databaseUrl = `file:${path.join(workDir, "e2e.db")}`;
   const port = Number(process.env.E2E_PORT) || (await freePort());
-  const env = { DATABASE_URL: databaseUrl, TIDEWELL_DEMO: "1", NEXT_TELEMETRY_DISABLED: "1", AUTH_SECRET: "e2e-secret-e2e-secret-e2e-secret-0000" };
+  // Broker, ingest, simulator and web all meet on one embedded broker on a free port.
+  const brokerPort = await freePort();
+  const mqttUrl = `mqtt://127.0.0.1:${brokerPort}`;
+  const credentialsFile = path.join(workDir, "device-credentials.json");
+  // The mail sink (scripts/mail-sink.ts): SMTP for the app's outgoing mail, HTTP for tests to read it.
+  const [smtpPort, mailHttpPort] = [await freePort(), await freePort()];
+  const mailSinkURL = `http://127.0.0.1:${mailHttpPort}`;
+  const env = {
+    DATABASE_URL: databaseUrl,
+    TIDEWELL_DEMO: "1",
+    NEXT_TELEMETRY_DISABLED: "1",
+    AUTH_SECRET: "e2e-secret-e2e-secret-e2e-secret-0000",
+    BROKER_PORT: String(brokerPort),
+    BROKER_STATE_FILE: path.join(workDir, "broker-state.json"),
+    MQTT_URL: mqttUrl,
+    DEVICE_CREDENTIALS_FILE: credentialsFile,
+    SIM_CREDENTIALS_FILE: credentialsFile,
+    MAIL_SINK_SMTP_PORT: String(smtpPort),
+    MAIL_SINK_HTTP_PORT: String(mailHttpPort),
+    SMTP_URL: `smtp://127.0.0.1:${smtpPort}`,
+    MAIL_SINK_URL: mailSinkURL,
+    APP_URL: `http://127.0.0.1:${port}`,
+    // The alert runner ticks every second and resolves after 5 s clear, so tests need not wait minutes.
+    ALERTS_TICK_MS: "1000",
+    ALERTS_RESOLVE_AFTER_MS: "5000",
+  };
 
-  const tsx = path.join(ROOT, "node_modules/.bin/tsx");
-  const seed = startProcess("seed", tsx, ["scripts/seed.ts"], env, workDir);
-  await new Promise<void>((resolve, reject) => seed.child.on("exit", (code) => (code === 0 ? resolve() : reject(new Error(`seed failed; see ${seed.log}`)))));
-  process.env.DATABASE_URL = databaseUrl;
-  const { addOtherOrganisation } = await import("./fixtures");
-  await addOtherOrganisation();
-
-  const next = path.join(ROOT, "node_modules/.bin/next");
-  procs.push(startProcess("web", next, ["start", "-H", "127.0.0.1", "-p", String(port)], env, workDir));
-  const baseURL = `http://127.0.0.1:${port}`;
-  await waitForHttp(`${baseURL}/sign-in`, 90_000);
-
-  project.provide("baseURL", baseURL);
-  project.provide("databaseUrl", databaseUrl);
-  project.provide("workDir", workDir);
-
-  return async () => {
+  const stopAll = () => {
     for (const p of procs.reverse()) stopProcess(p);
   };
+  try {
+    await startStack();
+  } catch (err) {
+    stopAll(); // a failed start must not leave the stack running
+    for (const p of procs) console.error(`--- ${p.name} (last lines of ${p.log})\n${fs.readFileSync(p.log, "utf8").split("\n").slice(-30).join("\n")}`);
+    throw err;
+  }
+
+  project.provide("baseURL", `http://127.0.0.1:${port}`);
+  project.provide("databaseUrl", databaseUrl);
+  project.provide("workDir", workDir);
+  project.provide("mqttUrl", mqttUrl);
+  project.provide("mailSinkURL", mailSinkURL);
+
+  return async () => {
+    stopAll();
+    if (!process.env.E2E_KEEP_DIR) fs.rmSync(workDir, { recursive: true, force: true });
+  };
+
+  async function startStack() {
+    const tsx = path.join(ROOT, "node_modules/.bin/tsx");
+    const seed = startProcess("seed", tsx, ["scripts/seed.ts"], env, workDir);
+    await new Promise<void>((resolve, reject) => seed.child.on("exit", (code) => (code === 0 ? resolve() : reject(new Error(`seed failed; see ${seed.log}`)))));
+    process.env.DATABASE_URL = databaseUrl;
+    const { addOtherOrganisation } = await import("./fixtures");
+    await addOtherOrganisation();
+
+    procs.push(startProcess("mail-sink", tsx, ["scripts/mail-sink.ts"], env, workDir));
+    await waitForHttp(`${mailSinkURL}/messages`, 30_000);
+
+    const broker = startProcess("broker", tsx, ["ingest/broker-main.ts"], env, workDir);
+    procs.push(broker);
+    await waitFor("the broker", async () => fs.readFileSync(broker.log, "utf8").includes("listening on"), 30_000);
+    const ingest = startProcess("ingest", tsx, ["ingest/main.ts"], env, workDir);
+    procs.push(ingest);
+    await waitFor("the ingest", async () => fs.readFileSync(ingest.log, "utf8").includes("subscribed"), 30_000);
+
+    const next = path.join(ROOT, "node_modules/.bin/next");
+    procs.push(startProcess("web", next, ["start", "-H", "127.0.0.1", "-p", String(port)], env, workDir));
+    const baseURL = `http://127.0.0.1:${port}`;
+    await waitForHttp(`${baseURL}/sign-in`, 90_000);
+    procs.push(startProcess("simulator", tsx, ["scripts/simulator/main.ts"], env, workDir));
+  }
 }

@@ -28,6 +28,7 @@ const SAMPLE_TABLE: Record<string, string> = {
   users: "users",
   sites: "sites",
   devices: "devices",
+  zones: "zones",
 };
 
 function findRoutes(dir = path.join(ROOT, "app/api")): { template: string; methods: string[] }[] {

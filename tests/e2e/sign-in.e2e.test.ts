@@ -7,7 +7,7 @@ import { sessionFor } from "./session";
 const NAV: Record<Role, string[]> = {
   owner: ["Tank wall", "Tanks", "Calibrations", "Incidents", "Settings", "Demo mailbox"],
   grower: ["Tank wall", "Tanks", "Calibrations", "Incidents", "Settings"],
-  night_manager: ["Tank wall", "Tanks", "Calibrations", "Incidents"],
+  night_manager: ["Tank wall", "Tanks", "Calibrations", "Incidents", "Settings"],
 };
 
 describe("sign-in and role navigation", () => {
@@ -65,7 +65,7 @@ describe("sign-in and role navigation", () => {
       await shot(page, `wall-${role}`);
       if (role === "night_manager") {
         await page.goto(`${baseURL}/settings`);
-        await expect.poll(() => new URL(page.url()).pathname).toBe("/");
+        await expect.poll(() => new URL(page.url()).pathname).toBe("/settings/preferences");
       }
       await context.close();
     });

@@ -7,8 +7,8 @@ import { getDb } from "@/db/client";
 import { tankOverview } from "@/db/queries/overview";
 import { calibrationRuns, holds, incidents } from "@/db/schema";
 import { currentUser } from "@/app/_server/session";
-import { Card, NotBuiltYet, PageHeader } from "@/components/ui/card";
-import { TankTile } from "@/components/tanks/tank-tile";
+import { Card, PageHeader } from "@/components/ui/card";
+import { TankLiveView } from "@/components/tanks/tank-live-view";
 import { CalibrationBadge } from "@/components/tanks/state-badge";
 import { formatDateTime } from "@/lib/display/time";
 
@@ -31,11 +31,10 @@ export default async function TankPage({ params }: { params: Promise<{ id: strin
   const serial = new Map(tank.probes.map((p) => [p.id, `${p.kind.toUpperCase()} ${p.serial}`]));
   return (
     <>
-      <PageHeader title={tank.name} subtitle={`${tank.siteName}${tank.zoneName ? ` · ${tank.zoneName}` : ""} · ${tank.crop}`} />
+      <PageHeader title={tank.name} subtitle={`${tank.siteName}${tank.zoneName ? ` · ${tank.zoneName}` : ""} · ${tank.crop}`} actions={user.role !== "night_manager" ? <Link href={`/calibrations/new?tank=${tank.id}`} className="inline-flex h-11 items-center rounded-md bg-accent-700 px-4 text-sm font-medium text-white hover:bg-accent-800">Calibrate</Link> : null} />
       <div className="grid gap-6 xl:grid-cols-[minmax(0,1fr)_24rem]">
-        <div className="space-y-6">
-          <TankTile tank={tank} now={now} ecUnit={user.ecUnit} />
-          <NotBuiltYet what="Charts of pH, EC and temperature over time" />
+        <div className="min-w-0">
+          <TankLiveView initialTank={tank} ecUnit={user.ecUnit} renderedAt={now} />
         </div>
         <div className="space-y-6">
           <Card className="p-4">

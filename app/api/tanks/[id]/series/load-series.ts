@@ -1,0 +1,122 @@
+// Downsampled history of one tank for charts and sparklines: min, max and mean per time bucket,
+// folded in SQL (so a 30-day view reads per-minute rollups, never millions of raw rows) and
+// finished by the pure bucketing in lib/display/downsample.
+import { and, eq, gte, inArray, isNotNull, isNull, lt, lte, or, sql } from "drizzle-orm";
+import type { Db } from "@/db/client";
+import { calibrationRuns, holds, probes, sites, tanks, type ProbeKind } from "@/db/schema";
+import { bucketPlan, emptyBuckets, foldIntoBuckets, type BucketPlan, type Buckets, type Partial } from "@/lib/display/downsample";
+
+/** The newest minutes come from raw readings: the current minute's rollup is still filling. */
+const RAW_TAIL_MS = 5 * 60_000;
+const MINUTE = 60_000;
+
+export interface TankSeries {
+  tankId: number;
+  from: number;
+  to: number;
+  bucketMs: number;
+  source: "readings" | "rollups";
+  band: { ph: [number, number]; ec: [number, number]; temp: [number, number] };
+  series: Record<ProbeKind, Buckets>;
+  holds: { id: number; placedAt: number; endAt: number | null; plannedEndAt: number; reason: string }[];
+  calibrations: { id: number; kind: ProbeKind; at: number; status: string }[];
+}
+
+/** The tank of this organisation, or null. */
+async function scopedTank(db: Db, orgId: number, tankId: number) {
+  const [row] = await db
+    .select({ tank: tanks })
+    .from(tanks)
+    .innerJoin(sites, eq(sites.id, tanks.siteId))
+    .where(and(eq(tanks.id, tankId), eq(sites.orgId, orgId)));
+  return row?.tank ?? null;
+}
+
+// The client binds JS numbers as REAL: without the cast the division is not an integer one and
+// every row becomes a group of its own (tens of thousands of groups instead of ~2,000).
+const int = (n: number) => sql`CAST(${n} AS INTEGER)`;
+
+const WORST = sql`max(CASE quality WHEN 'ok' THEN 0 WHEN 'held' THEN 1 WHEN 'uncalibrated' THEN 2 WHEN 'lapsed' THEN 3 ELSE 4 END)`;
+
+async function rawPartials(db: Db, probeIds: number[], plan: BucketPlan, from: number, to: number): Promise<Partial[]> {
+  if (!probeIds.length || to <= from) return [];
+  const rows = await db.all<{ b: number; mn: number; mx: number; s: number; n: number; w: number }>(sql`
+    SELECT (ts - ${int(plan.start)}) / ${int(plan.bucketMs)} AS b, min(value) AS mn, max(value) AS mx, sum(value) AS s, count(value) AS n, ${WORST} AS w
+    FROM readings
+    WHERE probe_id IN (${sql.join(probeIds, sql`, `)}) AND ts >= ${from} AND ts < ${to} AND value IS NOT NULL
+    GROUP BY b`);
+  return rows.map((r) => ({ t: plan.start + r.b * plan.bucketMs, min: r.mn, max: r.mx, sum: r.s, count: r.n, worst: r.w }));
+}
+
+async function rollupPartials(db: Db, probeIds: number[], plan: BucketPlan, from: number, to: number): Promise<Partial[]> {
+  if (!probeIds.length || to <= from) return [];
+  const rows = await db.all<{ b: number; mn: number; mx: number; s: number; n: number }>(sql`
+    SELECT (minute - ${int(plan.start)}) / ${int(plan.bucketMs)} AS b, min(min) AS mn, max(max) AS mx, sum(sum) AS s, sum(count) AS n
+    FROM rollups
+    WHERE probe_id IN (${sql.join(probeIds, sql`, `)}) AND minute >= ${from} AND minute < ${to}
+    GROUP BY b`);
+  // Rollups carry no quality flags; the chart marks holds and calibrations instead.
+  return rows.map((r) => ({ t: plan.start + r.b * plan.bucketMs, min: r.mn, max: r.mx, sum: r.s, count: r.n, worst: null }));
+}
+
+/** Series of one tank over [from, to) in at most `points` buckets; null when the tank is not the organisation's. */
+export async function loadTankSeries(db: Db, orgId: number, tankId: number, from: number, to: number, points: number): Promise<TankSeries | null> {
+  const tank = await scopedTank(db, orgId, tankId);
+  if (!tank) return null;
+  const plan = bucketPlan(from, to, points);
+  const probeRows = await db.select({ id: probes.id, kind: probes.kind }).from(probes).where(eq(probes.tankId, tankId));
+  const useRollups = plan.bucketMs >= MINUTE;
+  const rawFrom = useRollups ? Math.max(plan.start, Math.floor((to - RAW_TAIL_MS) / MINUTE) * MINUTE) : Math.max(from, plan.start);
+
+  const series = {} as Record<ProbeKind, Buckets>;
+  await Promise.all(
+    (["ph", "ec", "temp"] as const).map(async (kind) => {
+      const ids = probeRows.filter((p) => p.kind === kind).map((p) => p.id);
+      if (!ids.length) {
+        series[kind] = emptyBuckets(plan.bucketMs);
+        return;
+      }
+      const [older, recent] = await Promise.all([
+        useRollups ? rollupPartials(db, ids, plan, plan.start, rawFrom) : Promise.resolve([]),
+        rawPartials(db, ids, plan, rawFrom, to),
+      ]);
+      series[kind] = foldIntoBuckets([...older, ...recent], plan);
+    }),
+  );
+
+  const probeKind = new Map(probeRows.map((p) => [p.id, p.kind]));
+  const [holdRows, runRows] = await Promise.all([
+    db
+      .select()
+      .from(holds)
+      .where(and(eq(holds.tankId, tankId), lt(holds.placedAt, to), or(isNull(holds.releasedAt), gte(holds.releasedAt, from)))),
+    probeRows.length
+      ? db
+          .select({ id: calibrationRuns.id, probeId: calibrationRuns.probeId, completedAt: calibrationRuns.completedAt, status: calibrationRuns.status })
+          .from(calibrationRuns)
+          .where(
+            and(
+              inArray(
+                calibrationRuns.probeId,
+                probeRows.map((p) => p.id),
+              ),
+              isNotNull(calibrationRuns.completedAt),
+              gte(calibrationRuns.completedAt, from),
+              lte(calibrationRuns.completedAt, to),
+            ),
+          )
+      : Promise.resolve([]),
+  ]);
+
+  return {
+    tankId,
+    from,
+    to,
+    bucketMs: plan.bucketMs,
+    source: useRollups ? "rollups" : "readings",
+    band: { ph: [tank.phMin, tank.phMax], ec: [tank.ecMinUs, tank.ecMaxUs], temp: [tank.tempMin, tank.tempMax] },
+    series,
+    holds: holdRows.map((h) => ({ id: h.id, placedAt: h.placedAt, endAt: h.releasedAt, plannedEndAt: h.plannedEndAt, reason: h.reason })),
+    calibrations: runRows.map((r) => ({ id: r.id, kind: probeKind.get(r.probeId) ?? "ph", at: r.completedAt!, status: r.status })),
+  };
+}

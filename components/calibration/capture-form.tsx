@@ -1,0 +1,116 @@
+"use client";
+import { useState } from "react";
+import { useMutation, useQueryClient } from "@tanstack/react-query";
+import { Button } from "@/components/ui/button";
+import { ApiRefusal, api } from "./api";
+import type { LiveJson } from "./types";
+
+const input = "h-12 w-full rounded-md border border-paper-line bg-paper-raised px-3 text-base";
+
+/** Lot, expiry, temperature and (for an unsettled reading) a note; captures the live reading. */
+export function CaptureForm({
+  runId,
+  purpose,
+  live,
+  defaults,
+  lotRequired,
+}: {
+  runId: number;
+  purpose: "as_found" | "point";
+  live: LiveJson | undefined;
+  defaults: { lot?: string; expiresOn?: string };
+  lotRequired: boolean;
+}) {
+  const qc = useQueryClient();
+  const [lot, setLot] = useState(defaults.lot ?? "");
+  const [expiresOn, setExpiresOn] = useState(defaults.expiresOn ?? "");
+  const [typeTemp, setTypeTemp] = useState(false);
+  const [tempC, setTempC] = useState("");
+  const [early, setEarly] = useState(false);
+  const [note, setNote] = useState("");
+  const [error, setError] = useState<ApiRefusal | null>(null);
+  const stable = Boolean(live?.stability.stable);
+  const noTemp = !live?.temperature;
+
+  const capture = useMutation({
+    mutationFn: () =>
+      api(`/api/calibrations/runs/${runId}/points`, {
+        method: "POST",
+        json: {
+          purpose,
+          lot: lot.trim() || undefined,
+          expiresOn: expiresOn || undefined,
+          tempC: typeTemp || noTemp ? (tempC === "" ? undefined : Number(tempC)) : undefined,
+          note: early ? note : undefined,
+        },
+      }),
+    onSuccess: async () => {
+      setError(null);
+      await qc.invalidateQueries({ queryKey: ["run", runId] });
+    },
+    onError: (e) => setError(e instanceof ApiRefusal ? e : new ApiRefusal("The point could not be captured.", 500)),
+  });
+
+  const canCapture = (stable || (early && note.trim().length > 0)) && (!lotRequired || (lot.trim() && expiresOn));
+  return (
+    <form
+      className="space-y-4"
+      onSubmit={(e) => {
+        e.preventDefault();
+        capture.mutate();
+      }}
+    >
+      <div className="grid gap-3 sm:grid-cols-2">
+        <label className="block text-sm font-medium">
+          Bottle lot{lotRequired ? "" : " (optional)"}
+          <input className={input} name="lot" value={lot} onChange={(e) => setLot(e.target.value)} autoComplete="off" />
+          {error?.fields.lot ? <span className="text-xs text-bad">{error.fields.lot}</span> : null}
+        </label>
+        <label className="block text-sm font-medium">
+          Expiry date{lotRequired ? "" : " (optional)"}
+          <input className={input} type="date" name="expiresOn" value={expiresOn} onChange={(e) => setExpiresOn(e.target.value)} />
+          {error?.fields.expiresOn ? <span className="text-xs font-semibold text-bad">{error.fields.expiresOn}</span> : null}
+        </label>
+      </div>
+      <div className="space-y-2">
+        {noTemp ? (
+          <p className="text-sm text-warn">The tank&apos;s temperature probe has no recent reading: type the buffer&apos;s temperature.</p>
+        ) : (
+          <label className="flex min-h-10 items-center gap-2 text-sm">
+            <input type="checkbox" className="size-5" checked={typeTemp} onChange={(e) => setTypeTemp(e.target.checked)} />
+            Type the temperature instead of the tank probe&apos;s {live?.temperature?.value.toFixed(1)} °C
+          </label>
+        )}
+        {typeTemp || noTemp ? (
+          <label className="block max-w-48 text-sm font-medium">
+            Temperature °C
+            <input className={input} name="tempC" inputMode="decimal" value={tempC} onChange={(e) => setTempC(e.target.value)} />
+            {error?.fields.tempC ? <span className="text-xs text-bad">{error.fields.tempC}</span> : null}
+          </label>
+        ) : null}
+      </div>
+      {!stable ? (
+        <div className="space-y-2">
+          <label className="flex min-h-10 items-center gap-2 text-sm">
+            <input type="checkbox" className="size-5" checked={early} onChange={(e) => setEarly(e.target.checked)} />
+            Capture before the reading settles (needs a note)
+          </label>
+          {early ? (
+            <label className="block text-sm font-medium">
+              Note
+              <input className={input} name="note" value={note} onChange={(e) => setNote(e.target.value)} placeholder="Why it is captured now" />
+            </label>
+          ) : null}
+        </div>
+      ) : null}
+      {error ? (
+        <p role="alert" className="rounded-md border border-bad/40 bg-bad/5 p-3 text-sm font-medium text-bad">
+          {error.message}
+        </p>
+      ) : null}
+      <Button type="submit" size="lg" disabled={!canCapture || capture.isPending} className="w-full sm:w-auto">
+        {capture.isPending ? "Capturing…" : stable ? "Capture this reading" : early ? "Capture with the note" : "Waiting for a stable reading…"}
+      </Button>
+    </form>
+  );
+}

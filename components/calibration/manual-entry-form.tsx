@@ -1,0 +1,163 @@
+"use client";
+import Link from "next/link";
+import { useState } from "react";
+import { Button } from "@/components/ui/button";
+import { BUFFERS, BUFFER_IDS, EC_STANDARD_IDS, EC_STANDARD_LABELS } from "@/lib/calibration";
+import { ApiRefusal, api } from "./api";
+import { toLocalInput, type ProbeOption, KIND_LABEL } from "./probe-options";
+
+const field = "h-12 w-full rounded-md border border-paper-line bg-paper-raised px-3 text-base";
+const HYDRO_STANDARD = JSON.stringify({ ec25UsPerCm: 2770, alphaPerC: 0.019 });
+
+interface StandardRow {
+  standard: string;
+  lot: string;
+  expiresOn: string;
+  tempC: string;
+}
+
+export function ManualEntryForm({ probes, now }: { probes: ProbeOption[]; now: number }) {
+  const [probeId, setProbeId] = useState(probes[0]?.id);
+  const probe = probes.find((p) => p.id === probeId);
+  const [performedAt, setPerformedAt] = useState(() => toLocalInput(now));
+  const [slope, setSlope] = useState("");
+  const [offset, setOffset] = useState("");
+  const [cellK, setCellK] = useState("");
+  const [rows, setRows] = useState<StandardRow[]>([{ standard: "tech-7.00", lot: "", expiresOn: "", tempC: "" }]);
+  const [note, setNote] = useState("");
+  const [file, setFile] = useState<File | null>(null);
+  const [error, setError] = useState<ApiRefusal | null>(null);
+  const [saved, setSaved] = useState<{ id: number; status: string; reasons: string[] } | null>(null);
+  const [busy, setBusy] = useState(false);
+  const options = probe?.kind === "ec" ? [...EC_STANDARD_IDS.map((id) => [id, EC_STANDARD_LABELS[id]] as const), [HYDRO_STANDARD, "Hydroponic standard 2.77 mS/cm"] as const] : BUFFER_IDS.map((id) => [id, BUFFERS[id].label] as const);
+
+  const submit = async () => {
+    if (!probe) return;
+    setBusy(true);
+    setError(null);
+    try {
+      let uploadId: number | undefined;
+      if (file) {
+        const form = new FormData();
+        form.append("file", file);
+        uploadId = (await api<{ upload: { id: number } }>("/api/uploads", { method: "POST", body: form })).upload.id;
+      }
+      const num = (s: string) => (s.trim() === "" ? undefined : Number(s.replace(",", ".")));
+      const r = await api<{ run: { id: number; status: string; reasons: string[] } }>("/api/calibrations/manual", {
+        method: "POST",
+        json: {
+          probeId: probe.id,
+          performedAt: new Date(performedAt).getTime(),
+          ...(probe.kind === "ph" ? { slopePct: num(slope), offsetMv: num(offset) } : { cellConstant: num(cellK) }),
+          standards: rows.map((r) => ({ standard: r.standard, lot: r.lot, expiresOn: r.expiresOn, tempC: num(r.tempC) })),
+          note: note || undefined,
+          uploadId,
+        },
+      });
+      setSaved(r.run);
+    } catch (e) {
+      setError(e instanceof ApiRefusal ? e : new ApiRefusal("The calibration could not be saved.", 500));
+    } finally {
+      setBusy(false);
+    }
+  };
+
+  if (saved && probe) {
+    return (
+      <div className="space-y-3" data-verdict={saved.status}>
+        <p className={`text-lg font-semibold ${saved.status === "accepted" ? "text-ok" : "text-bad"}`}>{saved.status === "accepted" ? "✓ Recorded and accepted" : "✕ Recorded as rejected"}</p>
+        <ul className="list-disc pl-5 text-sm">
+          {saved.reasons.map((r) => (
+            <li key={r}>{r}</li>
+          ))}
+        </ul>
+        <Link className="font-medium text-accent-700 underline" href={`/probes/${probe.id}`}>
+          Open the probe record
+        </Link>
+      </div>
+    );
+  }
+
+  return (
+    <form
+      className="space-y-5"
+      onSubmit={(e) => {
+        e.preventDefault();
+        void submit();
+      }}
+    >
+      <div className="grid gap-3 sm:grid-cols-2">
+        <label className="block text-sm font-medium">
+          Probe
+          <select className={field} value={probeId} onChange={(e) => setProbeId(Number(e.target.value))}>
+            {probes.map((p) => (
+              <option key={p.id} value={p.id}>
+                {p.tankName} · {KIND_LABEL[p.kind]} {p.serial}
+              </option>
+            ))}
+          </select>
+        </label>
+        <label className="block text-sm font-medium">
+          Calibrated at
+          <input className={field} type="datetime-local" value={performedAt} onChange={(e) => setPerformedAt(e.target.value)} />
+          {error?.fields.performedAt ? <span className="text-xs text-bad">{error.fields.performedAt}</span> : null}
+        </label>
+      </div>
+      {probe?.kind === "ph" ? (
+        <div className="grid gap-3 sm:grid-cols-2">
+          <label className="block text-sm font-medium">
+            Slope (%)
+            <input className={field} inputMode="decimal" name="slopePct" value={slope} onChange={(e) => setSlope(e.target.value)} />
+          </label>
+          <label className="block text-sm font-medium">
+            Offset (mV)
+            <input className={field} inputMode="decimal" name="offsetMv" value={offset} onChange={(e) => setOffset(e.target.value)} />
+          </label>
+        </div>
+      ) : (
+        <label className="block max-w-xs text-sm font-medium">
+          Cell constant (/cm)
+          <input className={field} inputMode="decimal" name="cellConstant" value={cellK} onChange={(e) => setCellK(e.target.value)} />
+        </label>
+      )}
+      <fieldset className="space-y-3">
+        <legend className="text-sm font-semibold">{probe?.kind === "ec" ? "Standard used" : "Buffers used"}, with their lots</legend>
+        {rows.map((r, i) => (
+          <div key={i} className="grid gap-2 rounded-md border border-paper-line p-3 sm:grid-cols-[2fr_1fr_1fr_6rem]">
+            <select aria-label="Buffer or standard" className={field} value={r.standard} onChange={(e) => setRows(rows.map((x, j) => (j === i ? { ...x, standard: e.target.value } : x)))}>
+              {options.map(([id, label]) => (
+                <option key={id} value={id}>
+                  {label}
+                </option>
+              ))}
+            </select>
+            <input aria-label="Lot" placeholder="Lot" className={field} value={r.lot} onChange={(e) => setRows(rows.map((x, j) => (j === i ? { ...x, lot: e.target.value } : x)))} />
+            <input aria-label="Expiry date" type="date" className={field} value={r.expiresOn} onChange={(e) => setRows(rows.map((x, j) => (j === i ? { ...x, expiresOn: e.target.value } : x)))} />
+            <input aria-label="Temperature °C" placeholder="°C" inputMode="decimal" className={field} value={r.tempC} onChange={(e) => setRows(rows.map((x, j) => (j === i ? { ...x, tempC: e.target.value } : x)))} />
+          </div>
+        ))}
+        {probe?.kind === "ph" && rows.length < 3 ? (
+          <Button type="button" variant="secondary" size="sm" onClick={() => setRows([...rows, { standard: rows.length === 1 ? "tech-4.01" : "tech-10.01", lot: "", expiresOn: "", tempC: "" }])}>
+            Add a buffer
+          </Button>
+        ) : null}
+      </fieldset>
+      <label className="block text-sm font-medium">
+        Buffer certificate or photo of the meter&apos;s record (PDF, PNG or JPEG, up to 5 MB)
+        <input className="mt-1 block w-full text-sm" type="file" accept="application/pdf,image/png,image/jpeg" onChange={(e) => setFile(e.target.files?.[0] ?? null)} />
+      </label>
+      <label className="block text-sm font-medium">
+        Note (who calibrated, with which meter)
+        <input className={field} value={note} onChange={(e) => setNote(e.target.value)} />
+      </label>
+      {error ? (
+        <div role="alert" className="rounded-md border border-bad/40 bg-bad/5 p-3 text-sm font-medium text-bad">
+          {error.message}
+        </div>
+      ) : null}
+      <Button type="submit" size="lg" disabled={busy || !probe}>
+        {busy ? "Saving…" : "Save the calibration record"}
+      </Button>
+    </form>
+  );
+}

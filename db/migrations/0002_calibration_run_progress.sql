@@ -1,0 +1,1 @@
+ALTER TABLE `spot_checks` ADD `tidewell_ts` integer;

@@ -1,0 +1,197 @@
+// One flush = one write transaction: new readings (exact duplicates of a stored probe+ts are
+// ignored), the rollups of exactly the rows that were new, dead-letter samples, and devices'
+// last-seen times. The ingest acknowledges the batch's MQTT messages only after this commits.
+//
+// For a local SQLite file the writer uses the libsql driver directly: multi-row INSERTs
+// prepared once per size, run inside one transaction. A chunk whose change count shows a
+// duplicate is rolled back to its savepoint and inserted row by row, to learn which rows were
+// new (duplicates only follow redeliveries, so the fast path is the rule).
+// @libsql/client prepares every statement on each call; it is the fallback for a remote
+// libSQL server (DATABASE_URL=libsql://...), where round trips dominate anyway.
+import Database from "libsql";
+import { createClient, type InArgs } from "@libsql/client";
+import type { ProbeKind, QualityFlag } from "../../db/schema";
+import type { DeadLetter } from "./refusals";
+import { aggregateRollups, rollupUpsertSql, type RollupDelta } from "./rollups";
+
+export interface PendingRow {
+  probeId: number;
+  ts: number;
+  raw: number;
+  value: number | null;
+  quality: QualityFlag;
+  calibrationRunId: number | null;
+  // Carried for the live stream and the alert hook, not stored in the row.
+  kind: ProbeKind;
+  tankId: number;
+  orgId: number;
+}
+
+export interface ReadingWriter {
+  /** Writes one batch in one transaction; resolves with the rows that were new. */
+  write(rows: PendingRow[], deadLetters: DeadLetter[], seen: Map<string, number>): Promise<PendingRow[]>;
+  close(): void;
+}
+
+export interface WriterOptions {
+  url: string;
+  /** Under WAL, NORMAL survives a crash of the process (kill -9); FULL also a power cut. */
+  synchronous: "NORMAL" | "FULL";
+  deadLettersPerReason: number;
+}
+
+const INSERT_DEAD_LETTER = "INSERT INTO dead_letters (at, topic, reason, sample) VALUES (?, ?, ?, ?)";
+const PRUNE_DEAD_LETTERS = "DELETE FROM dead_letters WHERE reason = ? AND id NOT IN (SELECT id FROM dead_letters WHERE reason = ? ORDER BY id DESC LIMIT ?)";
+const TOUCH_DEVICE = "UPDATE devices SET last_seen_at = ? WHERE controller_id = ? AND revoked_at IS NULL";
+
+export function openReadingWriter(o: WriterOptions): ReadingWriter {
+  return o.url.startsWith("file:") ? new NativeWriter(o) : new ClientWriter(o);
+}
+
+/** The file path in a `file:` URL (file:/abs, file:///abs, file:relative; query dropped). */
+export function fileOfUrl(url: string): string {
+  let p = url.slice("file:".length).split("?")[0];
+  if (p.startsWith("//")) p = p.slice(2);
+  return decodeURIComponent(p);
+}
+
+const ROWS_PER_INSERT = 50; // 300 parameters; larger statements gain little
+
+const insertManySql = (n: number) =>
+  `INSERT INTO readings (probe_id, ts, raw, value, quality, calibration_run_id) VALUES ${Array(n).fill("(?,?,?,?,?,?)").join(",")}
+   ON CONFLICT DO NOTHING`;
+
+class NativeWriter implements ReadingWriter {
+  private readonly db: Database.Database;
+  private readonly inserts = new Map<number, Database.Statement<unknown[]>>();
+  private readonly upsert: Database.Statement<unknown[]>;
+  private readonly letter: Database.Statement<unknown[]>;
+  private readonly prune: Database.Statement<unknown[]>;
+  private readonly touch: Database.Statement<unknown[]>;
+  private readonly tx: Record<"begin" | "commit" | "savepoint" | "release" | "rollbackTo", Database.Statement<unknown[]>>;
+
+  constructor(private readonly o: WriterOptions) {
+    this.db = new Database(fileOfUrl(o.url), { timeout: 10_000 });
+    this.db.exec(`PRAGMA journal_mode=WAL; PRAGMA synchronous=${o.synchronous};`);
+    this.upsert = this.db.prepare(rollupUpsertSql(1));
+    this.letter = this.db.prepare(INSERT_DEAD_LETTER);
+    this.prune = this.db.prepare(PRUNE_DEAD_LETTERS);
+    this.touch = this.db.prepare(TOUCH_DEVICE);
+    this.tx = {
+      begin: this.db.prepare("BEGIN IMMEDIATE"),
+      commit: this.db.prepare("COMMIT"),
+      savepoint: this.db.prepare("SAVEPOINT chunk"),
+      release: this.db.prepare("RELEASE chunk"),
+      rollbackTo: this.db.prepare("ROLLBACK TO chunk"),
+    };
+  }
+
+  private insertStatement(n: number): Database.Statement<unknown[]> {
+    let stmt = this.inserts.get(n);
+    if (!stmt) {
+      stmt = this.db.prepare(insertManySql(n));
+      this.inserts.set(n, stmt);
+    }
+    return stmt;
+  }
+
+  /** Inserts the rows; returns those that were new (a repeat, stored or in the batch, is not). */
+  private insertRows(rows: PendingRow[]): PendingRow[] {
+    const inserted: PendingRow[] = [];
+    for (let i = 0; i < rows.length; i += ROWS_PER_INSERT) {
+      const chunk = rows.slice(i, i + ROWS_PER_INSERT);
+      const args: unknown[] = [];
+      for (const r of chunk) args.push(r.probeId, r.ts, r.raw, r.value, r.quality, r.calibrationRunId);
+      this.tx.savepoint.run();
+      if (this.insertStatement(chunk.length).run(args).changes === chunk.length) {
+        this.tx.release.run();
+        inserted.push(...chunk); // the usual case: nothing was a duplicate
+        continue;
+      }
+      this.tx.rollbackTo.run();
+      this.tx.release.run();
+      const one = this.insertStatement(1);
+      for (const r of chunk) if (one.run(r.probeId, r.ts, r.raw, r.value, r.quality, r.calibrationRunId).changes) inserted.push(r);
+    }
+    return inserted;
+  }
+
+  async write(rows: PendingRow[], deadLetters: DeadLetter[], seen: Map<string, number>): Promise<PendingRow[]> {
+    let inserted: PendingRow[];
+    this.tx.begin.run();
+    try {
+      inserted = this.insertRows(rows);
+      for (const d of aggregateRollups(inserted)) this.upsert.run(d.probeId, d.minute, d.min, d.max, d.sum, d.count);
+      for (const d of deadLetters) {
+        this.letter.run(d.at, d.topic, d.reason, d.sample);
+        this.prune.run(d.reason, d.reason, this.o.deadLettersPerReason);
+      }
+      for (const [controllerId, at] of seen) this.touch.run(at, controllerId);
+      this.tx.commit.run();
+    } catch (err) {
+      if (this.db.inTransaction) this.db.exec("ROLLBACK");
+      throw err;
+    }
+    return inserted;
+  }
+
+  close(): void {
+    this.db.close();
+  }
+}
+
+const CHUNK = 500; // 3,000 parameters a statement, well under SQLite's limit
+
+class ClientWriter implements ReadingWriter {
+  private readonly client;
+
+  constructor(private readonly o: WriterOptions) {
+    this.client = createClient({ url: o.url, authToken: process.env.DATABASE_AUTH_TOKEN, concurrency: 1, timeout: 10_000 });
+  }
+
+  async write(rows: PendingRow[], deadLetters: DeadLetter[], seen: Map<string, number>): Promise<PendingRow[]> {
+    const byKey = new Map<string, PendingRow>();
+    for (const r of rows) {
+      const k = `${r.probeId}:${r.ts}`;
+      if (!byKey.has(k)) byKey.set(k, r); // a repeat inside the batch is a duplicate too
+    }
+    const unique = [...byKey.values()];
+    const inserted: PendingRow[] = [];
+    const tx = await this.client.transaction("write");
+    try {
+      for (let i = 0; i < unique.length; i += CHUNK) {
+        const chunk = unique.slice(i, i + CHUNK);
+        const args: InArgs = [];
+        for (const r of chunk) args.push(r.probeId, r.ts, r.raw, r.value, r.quality, r.calibrationRunId);
+        const sql = `INSERT INTO readings (probe_id, ts, raw, value, quality, calibration_run_id) VALUES ${Array(chunk.length).fill("(?,?,?,?,?,?)").join(",")}
+          ON CONFLICT DO NOTHING RETURNING probe_id, ts`;
+        const rs = await tx.execute({ sql, args });
+        if (rs.rows.length === chunk.length) inserted.push(...chunk);
+        else for (const row of rs.rows) inserted.push(byKey.get(`${row[0]}:${row[1]}`)!);
+      }
+      const deltas: RollupDelta[] = aggregateRollups(inserted);
+      for (let i = 0; i < deltas.length; i += CHUNK) {
+        const chunk = deltas.slice(i, i + CHUNK);
+        const args: InArgs = [];
+        for (const d of chunk) args.push(d.probeId, d.minute, d.min, d.max, d.sum, d.count);
+        await tx.execute({ sql: rollupUpsertSql(chunk.length), args });
+      }
+      for (const d of deadLetters) {
+        await tx.execute({ sql: INSERT_DEAD_LETTER, args: [d.at, d.topic, d.reason, d.sample] });
+        await tx.execute({ sql: PRUNE_DEAD_LETTERS, args: [d.reason, d.reason, this.o.deadLettersPerReason] });
+      }
+      for (const [controllerId, at] of seen) await tx.execute({ sql: TOUCH_DEVICE, args: [at, controllerId] });
+      await tx.commit();
+    } catch (err) {
+      await tx.rollback().catch(() => undefined);
+      throw err;
+    } finally {
+      tx.close();
+    }
+    return inserted;
+  }
+
+  close(): void {
+    this.client.close();
+  }
+}

@@ -1,0 +1,280 @@
+// The ingest's hot path: validate each raw message, correct its samples, batch them, commit a
+// batch in one transaction, then acknowledge its MQTT messages, stream its new readings and
+// hand them to the alert hook. One flush runs at a time; messages keep arriving meanwhile.
+import { controllerOfRawTopic, topics } from "../topics";
+import { isFuture, type RawSample, type ReadingBatch, type RefusalReason } from "../payloads";
+import type { CommittedReading, IngestHooks } from "../hooks";
+import { errorText, type Logger } from "../log";
+import type { PendingRow, ReadingWriter } from "./batch-writer";
+import type { CalibrationBook } from "./calibrations";
+import { correct, isPhysical } from "./correct";
+import { decodeRaw } from "./decode";
+import type { IngestMetrics } from "./health";
+import type { HoldBook } from "./holds";
+import type { ProbeInfo, Registry } from "./registry";
+import type { Refusals } from "./refusals";
+import type { TankTemperatures } from "./temperatures";
+
+export interface PipelineDeps {
+  registry: Registry;
+  calibrations: CalibrationBook;
+  holds: HoldBook;
+  temperatures: TankTemperatures;
+  refusals: Refusals;
+  writer: ReadingWriter;
+  metrics: IngestMetrics;
+  publish: (topic: string, payload: string) => void;
+  /** Sends the acknowledgements of a batch together (corks the broker connection). */
+  ackAll: (acks: (() => void)[]) => void;
+  onCommitted: IngestHooks["onReadingsCommitted"];
+  log: Logger;
+  flushMs: number;
+  batchRows: number;
+  maxPendingRows: number;
+  retentionDays: number;
+  now?: () => number;
+}
+
+interface Batch {
+  rows: PendingRow[];
+  acks: (() => void)[];
+}
+
+const DAY_MS = 86_400_000;
+const SEEN_EVERY_MS = 10_000; // how often a device's last_seen_at is written at most
+// Samples of one message are corrected temperature first, so pH and EC use this tick's temperature.
+const ORDER: Record<ProbeInfo["kind"], number> = { temp: 0, ph: 1, ec: 2 };
+
+export class Pipeline {
+  private current: Batch = { rows: [], acks: [] };
+  private inFlight = 0; // rows of the batch being written
+  private timer: NodeJS.Timeout | null = null;
+  private flushing: Promise<void> | null = null;
+  private waiters: (() => void)[] = [];
+  private lastSeq = new Map<string, number>();
+  private seenWritten = new Map<string, number>();
+  private seenPending = new Map<string, number>();
+  private lastFailureLog = 0;
+  private writeLock: Promise<unknown> = Promise.resolve();
+  /** Per probe, the earliest ts committed since the calibrations were last loaded. */
+  readonly committedSinceRefresh = new Map<number, number>();
+  private readonly now: () => number;
+
+  constructor(private readonly d: PipelineDeps) {
+    this.now = d.now ?? Date.now;
+  }
+
+  get queueDepth() {
+    return { samples: this.current.rows.length + this.inFlight, messages: this.current.acks.length };
+  }
+
+  /**
+   * One raw message from the broker. Returns a promise when the worker is too far behind:
+   * the session then stops reading from the broker until it settles.
+   */
+  accept(topic: string, payload: Buffer, ack: () => void): Promise<void> | void {
+    const m = this.d.metrics;
+    m.messagesTotal++;
+    this.current.acks.push(ack);
+    this.ingest(topic, payload);
+    if (this.current.rows.length >= this.d.batchRows) void this.flush();
+    else this.timer ??= setTimeout(() => void this.flush(), this.d.flushMs);
+    if (this.current.rows.length + this.inFlight > this.d.maxPendingRows) {
+      return new Promise<void>((resolve) => this.waiters.push(resolve));
+    }
+  }
+
+  private refuse(reason: RefusalReason, topic: string, sample: Buffer | string) {
+    this.d.refusals.record(reason, topic, sample, this.now());
+  }
+
+  private ingest(topic: string, payload: Buffer) {
+    const controllerId = controllerOfRawTopic(topic);
+    if (!controllerId) return this.refuse("invalid-schema", topic, payload);
+    const decoded = decodeRaw(payload);
+    if (!decoded.ok) return this.refuse(decoded.reason, topic, payload);
+    const snap = this.d.registry.snap;
+    const tankId = snap.tankOfController.get(controllerId);
+    const tank = tankId === undefined ? undefined : snap.tanks.get(tankId);
+    if (!tank) {
+      this.d.registry.refreshAfterMiss();
+      return this.refuse("unknown-controller", topic, payload);
+    }
+    const now = this.now();
+    this.trackSeq(controllerId, decoded.message.seq);
+    this.seenPending.set(controllerId, now);
+
+    const accepted: { s: RawSample; p: ProbeInfo }[] = [];
+    for (const s of decoded.message.samples) {
+      const p = snap.probesBySerial.get(s.serial);
+      const reason = this.sampleRefusal(s, p, tank.id, now);
+      if (reason) {
+        if (reason === "unknown-probe") this.d.registry.refreshAfterMiss(now);
+        this.refuse(reason, topic, JSON.stringify({ controllerId, sample: s }));
+        continue;
+      }
+      accepted.push({ s, p: p! });
+    }
+    if (accepted.length > 1) accepted.sort((a, b) => ORDER[a.p.kind] - ORDER[b.p.kind]);
+
+    for (const { s, p } of accepted) {
+      const c = correct({
+        kind: p.kind,
+        raw: s.signal,
+        ts: s.ts,
+        tempC: p.kind === "temp" ? null : this.d.temperatures.at(tank.id, s.ts),
+        calibration: p.kind === "temp" ? null : this.d.calibrations.inForce(p.id, s.ts),
+        nominalCellConstant: p.nominalCellConstant,
+        alphaPerC: tank.alphaPerC,
+        intervalDays: tank.intervalDays,
+        held: this.d.holds.held(tank.id, p.id, s.ts),
+      });
+      // Whatever its flag (a held tank still has a temperature), an impossible value never compensates.
+      if (p.kind === "temp" && c.value !== null && isPhysical("temp", c.value)) this.d.temperatures.record(tank.id, s.ts, c.value);
+      this.current.rows.push({ probeId: p.id, ts: s.ts, raw: s.signal, ...c, kind: p.kind, tankId: tank.id, orgId: tank.orgId });
+    }
+  }
+
+  private sampleRefusal(s: RawSample, p: ProbeInfo | undefined, tankId: number, now: number): RefusalReason | null {
+    if (!p) return "unknown-probe";
+    if (p.tankId !== tankId) return "probe-not-on-this-controller";
+    if (p.status === "retired" || (p.retiredAt !== null && s.ts >= p.retiredAt)) return "retired-probe";
+    if (isFuture(s.ts, now)) return "future-timestamp";
+    if (s.ts < now - this.d.retentionDays * DAY_MS) return "expired-timestamp";
+    return null;
+  }
+
+  private trackSeq(controllerId: string, seq: number) {
+    const high = this.lastSeq.get(controllerId);
+    // 0 is a device (re)start. Lower numbers are redeliveries arriving after newer messages:
+    // not gaps. Only a jump above the highest number seen counts what went missing.
+    if (high === undefined || seq === 0) this.lastSeq.set(controllerId, seq);
+    else if (seq > high) {
+      this.d.metrics.seqGaps += seq - high - 1;
+      this.lastSeq.set(controllerId, seq);
+    }
+  }
+
+  /** Commits everything received so far (resolves when the loop is idle again). */
+  flush(): Promise<void> {
+    if (this.timer) clearTimeout(this.timer);
+    this.timer = null;
+    this.flushing ??= this.loop().finally(() => (this.flushing = null));
+    return this.flushing;
+  }
+
+  private async loop() {
+    while (this.current.rows.length || this.current.acks.length) {
+      const batch = this.current;
+      this.current = { rows: [], acks: [] };
+      this.inFlight = batch.rows.length;
+      const letters = this.d.refusals.take();
+      const seen = this.takeSeen();
+      const started = this.now();
+      let inserted: PendingRow[];
+      try {
+        inserted = await this.exclusive(() => this.d.writer.write(batch.rows, letters, seen));
+      } catch (err) {
+        // Nothing was acknowledged: keep the batch, wait, and try again (the broker still holds
+        // the messages, so even a restart now loses nothing).
+        this.d.refusals.restore(letters);
+        for (const [k, v] of seen) if (!this.seenPending.has(k)) this.seenPending.set(k, v);
+        this.current = { rows: batch.rows.concat(this.current.rows), acks: batch.acks.concat(this.current.acks) };
+        this.inFlight = 0;
+        if (this.now() - this.lastFailureLog > 5000) {
+          this.lastFailureLog = this.now();
+          this.d.log.error(`commit of ${batch.rows.length} rows failed; retrying`, err);
+        }
+        await new Promise((r) => setTimeout(r, 250));
+        continue;
+      }
+      const committedAt = this.now();
+      this.inFlight = 0;
+      this.d.ackAll(batch.acks);
+      this.d.metrics.recordCommit(
+        inserted.map((r) => r.ts),
+        batch.rows.length,
+        committedAt,
+        committedAt - started,
+      );
+      for (const r of inserted) {
+        const first = this.committedSinceRefresh.get(r.probeId);
+        if (first === undefined || r.ts < first) this.committedSinceRefresh.set(r.probeId, r.ts);
+      }
+      this.releaseWaiters();
+      if (inserted.length) {
+        this.stream(inserted);
+        await this.runHook(inserted);
+      }
+    }
+  }
+
+  /**
+   * Runs `fn` while no batch is being written. Other writes of this process (recomputeFrom) go
+   * through here: the writer's connection waits for SQLite's lock synchronously, so it must
+   * never find the lock held by another connection of this same thread.
+   */
+  exclusive<T>(fn: () => Promise<T>): Promise<T> {
+    const run = this.writeLock.then(fn, fn);
+    this.writeLock = run.catch(() => undefined);
+    return run;
+  }
+
+  private takeSeen(): Map<string, number> {
+    const out = new Map<string, number>();
+    for (const [id, at] of this.seenPending) {
+      const written = this.seenWritten.get(id);
+      if (written === undefined || at - written >= SEEN_EVERY_MS) {
+        out.set(id, at);
+        this.seenWritten.set(id, at);
+      }
+    }
+    for (const id of out.keys()) this.seenPending.delete(id);
+    return out;
+  }
+
+  private releaseWaiters() {
+    if (this.current.rows.length + this.inFlight > this.d.maxPendingRows / 2) return;
+    const waiters = this.waiters;
+    this.waiters = [];
+    for (const w of waiters) w();
+  }
+
+  /** Publishes the new readings per tank on tw/v1/org/{orgId}/tank/{tankId}/reading. */
+  private stream(rows: PendingRow[]) {
+    const byTank = new Map<number, PendingRow[]>();
+    for (const r of rows) {
+      const list = byTank.get(r.tankId);
+      if (list) list.push(r);
+      else byTank.set(r.tankId, [r]);
+    }
+    for (const [tankId, list] of byTank) {
+      const batch: ReadingBatch = {
+        v: 1,
+        readings: list.map((r) => ({ v: 1, orgId: r.orgId, tankId, probeId: r.probeId, kind: r.kind, ts: r.ts, raw: r.raw, value: r.value, quality: r.quality })),
+      };
+      this.d.publish(topics.reading(list[0].orgId, tankId), JSON.stringify(batch));
+    }
+  }
+
+  private async runHook(rows: PendingRow[]) {
+    const readings: CommittedReading[] = rows.map((r) => ({
+      v: 1,
+      orgId: r.orgId,
+      tankId: r.tankId,
+      probeId: r.probeId,
+      kind: r.kind,
+      ts: r.ts,
+      raw: r.raw,
+      value: r.value,
+      quality: r.quality,
+      calibrationRunId: r.calibrationRunId,
+    }));
+    try {
+      await this.d.onCommitted(readings);
+    } catch (err) {
+      this.d.metrics.hookErrors++;
+      this.d.log.error("onReadingsCommitted failed", errorText(err));
+    }
+  }
+}

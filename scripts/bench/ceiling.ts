@@ -1,0 +1,34 @@
+// The SQLite ceiling: the same rows as the ingest stores, inserted plainly with the same
+// statements and batches (50-row INSERTs prepared once, one transaction per 500 rows) into a
+// copy of the same database, with nothing else going on: what the disk path alone allows.
+import Database from "libsql";
+
+const ROWS_PER_INSERT = 50;
+
+export function measureInsertCeiling(file: string, probeIds: number[], rows: number, batch = 500): number {
+  const db = new Database(file, { timeout: 10_000 });
+  db.exec("PRAGMA journal_mode=WAL; PRAGMA synchronous=NORMAL;");
+  const insert = db.prepare(
+    `INSERT INTO readings (probe_id, ts, raw, value, quality, calibration_run_id) VALUES ${Array(ROWS_PER_INSERT).fill("(?,?,?,?,?,?)").join(",")} ON CONFLICT DO NOTHING`,
+  );
+  const begin = db.prepare("BEGIN IMMEDIATE");
+  const commit = db.prepare("COMMIT");
+  let ts = Date.now() + 86_400_000; // clear of the rows already there
+  let n = 0;
+  const started = performance.now();
+  while (n < rows) {
+    begin.run();
+    for (let i = 0; i < batch; i += ROWS_PER_INSERT) {
+      const args: unknown[] = [];
+      for (let k = 0; k < ROWS_PER_INSERT; k++, n++) {
+        if (n % probeIds.length === 0) ts++;
+        args.push(probeIds[n % probeIds.length], ts, 40, 6.2, "ok", null);
+      }
+      insert.run(args);
+    }
+    commit.run();
+  }
+  const seconds = (performance.now() - started) / 1000;
+  db.close();
+  return n / seconds;
+}

@@ -1,0 +1,252 @@
+// Bench section "live": the night manager's screen under load, through the real processes
+// (embedded broker, ingest, `next start` of the built app) on a seeded database of its own.
+//   publish_to_stream_p95_ms  device publish → the reading arriving at an SSE client, at 1,000 readings/s
+//   series_30d_ms             p95 of GET /api/tanks/[id]/series over 30 days of 1 Hz data of one probe, 2,000 points
+//   sse_clients_held          concurrent SSE clients still receiving after being held for 60 s
+//   sse_rss_growth_mb         growth of the web process's resident memory while holding them
+import fs from "node:fs";
+import path from "node:path";
+import mqtt, { type MqttClient } from "mqtt";
+import { createSeededDatabase } from "../../tests/integration/helpers/database";
+import { openDb, startBroker, startIngest } from "../../tests/integration/helpers/tidewell";
+import { REPO_ROOT, spawnProcess, stopAll } from "../../tests/integration/helpers/processes";
+import { freePort } from "../../tests/integration/helpers/ports";
+import { sleep } from "../../tests/integration/helpers/wait";
+import { sessionFor, type HttpSession } from "../../tests/e2e/session";
+import { topics } from "../../ingest/topics";
+import type { RawMessage } from "../../ingest/payloads";
+import type { BenchSection, Metric } from "./metric";
+
+const DAY_MS = 86_400_000;
+const AUTH_SECRET = "bench-secret-bench-secret-bench-secret-00";
+
+function p95(values: number[]): number {
+  if (!values.length) return NaN;
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted[Math.min(sorted.length - 1, Math.floor(sorted.length * 0.95))];
+}
+
+/** Resident memory of a process and its children, in MB (Linux /proc). */
+function treeRssMb(rootPid: number): number {
+  const children = new Map<number, number[]>();
+  for (const entry of fs.readdirSync("/proc")) {
+    if (!/^\d+$/.test(entry)) continue;
+    try {
+      const stat = fs.readFileSync(`/proc/${entry}/stat`, "utf8");
+      const ppid = Number(stat.slice(stat.lastIndexOf(")") + 2).split(" ")[1]);
+      children.set(ppid, [...(children.get(ppid) ?? []), Number(entry)]);
+    } catch {
+      /* gone */
+    }
+  }
+  let kb = 0;
+  const stack = [rootPid];
+  while (stack.length) {
+    const pid = stack.pop()!;
+    try {
+      const m = /VmRSS:\s+(\d+)/.exec(fs.readFileSync(`/proc/${pid}/status`, "utf8"));
+      kb += m ? Number(m[1]) : 0;
+    } catch {
+      /* gone */
+    }
+    stack.push(...(children.get(pid) ?? []));
+  }
+  return kb / 1024;
+}
+
+/** One SSE client: calls `onReadings` per readings event; tracks when it last heard anything. */
+async function openStream(session: HttpSession, onReadings?: (r: { ts: number }[]) => void) {
+  const abort = new AbortController();
+  const res = await session.fetch("/api/stream", { headers: { accept: "text/event-stream" }, signal: abort.signal });
+  if (res.status !== 200) throw new Error(`stream answered ${res.status}: ${(await res.text()).slice(0, 300)}`);
+  const state = { lastHeardAt: Date.now(), open: true, close: () => abort.abort() };
+  void (async () => {
+    const reader = res.body!.getReader();
+    const decoder = new TextDecoder();
+    let buffer = "";
+    try {
+      for (;;) {
+        const { value, done } = await reader.read();
+        if (done) break;
+        state.lastHeardAt = Date.now();
+        if (!onReadings) continue;
+        buffer += decoder.decode(value, { stream: true });
+        let cut: number;
+        while ((cut = buffer.indexOf("\n\n")) !== -1) {
+          const block = buffer.slice(0, cut);
+          buffer = buffer.slice(cut + 2);
+          if (!block.includes("event: readings")) continue;
+          const data = block.slice(block.indexOf("data: ") + 6);
+          onReadings((JSON.parse(data) as { readings: { ts: number }[] }).readings);
+        }
+      }
+    } catch {
+      /* aborted */
+    }
+    state.open = false;
+  })();
+  return state;
+}
+
+/** Publishes raw messages from the seeded controllers at a steady rate of readings per second. */
+async function pacedPublisher(url: string, targets: { controllerId: string; username: string; password: string; serials: string[] }[], readingsPerS: number) {
+  const clients: MqttClient[] = await Promise.all(
+    targets.map(
+      (t, i) =>
+        new Promise<MqttClient>((resolve, reject) => {
+          const c = mqtt.connect(url, { username: t.username, password: t.password, clientId: `${t.controllerId}-bench-live-${process.pid}-${i}`, reconnectPeriod: 0 });
+          c.once("connect", () => resolve(c));
+          c.once("error", reject);
+        }),
+    ),
+  );
+  const perTick = 10; // ms
+  const messagesPerTick = (readingsPerS / 3) * (perTick / 1000);
+  let owed = 0;
+  let next = 0;
+  const seq = targets.map(() => 0);
+  const lastTs = targets.map(() => 0);
+  const timer = setInterval(() => {
+    owed += messagesPerTick;
+    while (owed >= 1) {
+      owed -= 1;
+      const i = next++ % targets.length;
+      // The device's timestamp is its publish time, so arrival minus ts is the end-to-end latency.
+      const ts = Math.max(Date.now(), lastTs[i] + 1);
+      lastTs[i] = ts;
+      const message: RawMessage = { v: 1, seq: seq[i]++, samples: targets[i].serials.map((serial, k) => ({ serial, ts, signal: k === 2 ? 20.5 : k === 1 ? 1000 + (ts % 50) : -20 + (ts % 7) })) };
+      clients[i].publish(topics.raw(targets[i].controllerId), JSON.stringify(message), { qos: 1 });
+    }
+  }, perTick);
+  return {
+    stop: async () => {
+      clearInterval(timer);
+      await Promise.all(clients.map((c) => c.endAsync()));
+    },
+  };
+}
+
+/** 30 days of 1 Hz readings (and their per-minute rollups) for one new probe on a new tank. */
+async function addMonthOfOneHertz(client: ReturnType<typeof openDb>, now: number): Promise<number> {
+  const site = Number((await client.execute("SELECT id FROM sites ORDER BY id LIMIT 1")).rows[0].id);
+  const tank = await client.execute({
+    sql: "INSERT INTO tanks (site_id, name, crop, ph_min, ph_max, ec_min_us, ec_max_us) VALUES (?, 'Bench tank', 'leafy greens', 5.5, 6.5, 800, 1200) RETURNING id",
+    args: [site],
+  });
+  const tankId = Number(tank.rows[0].id);
+  const probe = await client.execute({ sql: "INSERT INTO probes (tank_id, kind, serial, installed_at) VALUES (?, 'ph', 'BENCH-PH-1HZ', ?) RETURNING id", args: [tankId, now - 31 * DAY_MS] });
+  const probeId = Number(probe.rows[0].id);
+  const start = Math.floor((now - 30 * DAY_MS) / 1000) * 1000;
+  const n = 30 * 86_400;
+  await client.execute({
+    sql: `WITH RECURSIVE s(i) AS (SELECT 0 UNION ALL SELECT i + 1 FROM s WHERE i < ?)
+          INSERT INTO readings (probe_id, ts, raw, value, quality)
+          SELECT ?, ? + i * 1000, 0, 6.0 + 0.3 * sin(i / 3600.0) + (abs(random()) % 100) / 5000.0, 'ok' FROM s`,
+    args: [n - 1, probeId, start],
+  });
+  await client.execute({
+    sql: `INSERT INTO rollups (probe_id, minute, min, max, sum, count)
+          SELECT probe_id, (ts / 60000) * 60000, min(value), max(value), sum(value), count(value) FROM readings WHERE probe_id = ? GROUP BY ts / 60000`,
+    args: [probeId],
+  });
+  return tankId;
+}
+
+export async function benchLive(opts: { seconds: number; log: (line: string) => void; clients?: number }): Promise<Metric[]> {
+  const { seconds, log } = opts;
+  const clientCount = opts.clients ?? Number(process.env.BENCH_SSE_CLIENTS ?? 500);
+  if (!fs.existsSync(path.join(REPO_ROOT, ".next", "BUILD_ID"))) throw new Error("build the web app first (npx next build)");
+  const db = await createSeededDatabase({ label: "bench-live" });
+  const client = openDb(db);
+  const metrics: Metric[] = [];
+  const streams: { close: () => void }[] = [];
+  let webOutput = () => "";
+  try {
+    const now = Date.now();
+    log("adding 30 days of 1 Hz readings for one probe");
+    const benchTank = await addMonthOfOneHertz(client, now);
+
+    const broker = await startBroker(db);
+    await startIngest(db, broker.url);
+    const port = await freePort();
+    const web = spawnProcess("web", path.join(REPO_ROOT, "node_modules/.bin/next"), ["start", "-H", "127.0.0.1", "-p", String(port)], {
+      env: { DATABASE_URL: db.url, MQTT_URL: broker.url, BROKER_PORT: String(broker.port), AUTH_SECRET, NEXT_TELEMETRY_DISABLED: "1" },
+    });
+    webOutput = () => web.output();
+    await web.waitForLine(/Ready in/, 60_000);
+    const baseURL = `http://127.0.0.1:${port}`;
+    const session = await sessionFor(baseURL, "night_manager");
+
+    // series_30d_ms: warm the route, then time it.
+    const url = () => `/api/tanks/${benchTank}/series?from=${Date.now() - 30 * DAY_MS}&to=${Date.now()}&points=2000`;
+    for (let i = 0; i < 5; i++) await (await session.fetch(url())).arrayBuffer();
+    const seriesMs: number[] = [];
+    let points = 0;
+    for (let i = 0; i < 40; i++) {
+      const t0 = performance.now();
+      const res = await session.fetch(url());
+      const body = (await res.json()) as { series: { ph: { t: number[] } } };
+      seriesMs.push(performance.now() - t0);
+      points = body.series.ph.t.length;
+    }
+    log(`series: ${points} points over 30 days`);
+    metrics.push({ metric: "series_30d_ms", value: Math.round(p95(seriesMs) * 10) / 10, unit: "ms" });
+
+    // publish_to_stream_p95_ms at 1,000 readings/s.
+    const probes = await client.execute("SELECT p.serial, t.controller_id FROM probes p JOIN tanks t ON t.id = p.tank_id WHERE t.controller_id IS NOT NULL ORDER BY p.id");
+    const serials = new Map<string, string[]>();
+    for (const r of probes.rows) serials.set(String(r.controller_id), [...(serials.get(String(r.controller_id)) ?? []), String(r.serial)]);
+    const credentials = JSON.parse(fs.readFileSync(db.credentialsFile, "utf8")) as { controllerId: string; username: string; password: string }[];
+    const targets = credentials.map((c) => ({ ...c, serials: serials.get(c.controllerId) ?? [] }));
+    let measuringFrom = Infinity;
+    const latencies: number[] = [];
+    const watcher = await openStream(session, (readings) => {
+      const at = Date.now();
+      for (const r of readings) if (r.ts >= measuringFrom) latencies.push(at - r.ts);
+    });
+    streams.push(watcher);
+    const load = await pacedPublisher(broker.url, targets, 1000);
+    await sleep(3000);
+    measuringFrom = Date.now();
+    await sleep(seconds * 1000);
+    measuringFrom = Infinity;
+    await load.stop();
+    log(`publish → stream: ${latencies.length} readings in ${seconds} s`);
+    metrics.push({ metric: "publish_to_stream_p95_ms", value: Math.round(p95(latencies)), unit: "ms" });
+    watcher.close();
+
+    // sse_clients_held: many clients held for 60 s while a light load keeps them busy.
+    const light = await pacedPublisher(broker.url, targets, 100);
+    await sleep(2000);
+    const rssBefore = treeRssMb(web.pid);
+    log(`opening ${clientCount} SSE clients (web RSS ${rssBefore.toFixed(0)} MB)`);
+    for (let i = 0; i < clientCount; i += 50) {
+      streams.push(...(await Promise.all(Array.from({ length: Math.min(50, clientCount - i) }, () => openStream(session)))));
+    }
+    const held = streams.slice(-clientCount) as Awaited<ReturnType<typeof openStream>>[];
+    await sleep(60_000);
+    const heardSince = Date.now() - 20_000;
+    const alive = held.filter((s) => s.open && s.lastHeardAt >= heardSince).length;
+    const rssAfter = treeRssMb(web.pid);
+    await light.stop();
+    log(`held ${alive}/${clientCount} clients for 60 s; web RSS ${rssAfter.toFixed(0)} MB`);
+    metrics.push({ metric: "sse_clients_held", value: alive, unit: "clients" });
+    metrics.push({ metric: "sse_rss_growth_mb", value: Math.round((rssAfter - rssBefore) * 10) / 10, unit: "MB" });
+    return metrics;
+  } catch (err) {
+    log(`failed; the web's last output:\n${webOutput().split("\n").slice(-30).join("\n")}`);
+    throw err;
+  } finally {
+    for (const s of streams) s.close();
+    await stopAll();
+    client.close();
+    db.remove();
+  }
+}
+
+export const liveSection: BenchSection = {
+  name: "live",
+  async *run({ seconds, log }) {
+    for (const m of await benchLive({ seconds, log })) yield m;
+  },
+};

@@ -1,0 +1,35 @@
+import { ALL, CHANGERS, OWNER, type AccessTable } from "./roles";
+
+// Settings (issue #7): owner for users, sites, devices, audit and exports; owner and grower for
+// tanks and probes; every role for their own preferences.
+export const ACCESS: AccessTable = {
+  "GET /api/settings/users": OWNER,
+  "POST /api/settings/users": OWNER,
+  "PATCH /api/settings/users/[id]": OWNER,
+  "POST /api/settings/users/[id]/invitation": OWNER,
+  "GET /api/settings/organisation": OWNER,
+  "PATCH /api/settings/organisation": OWNER,
+  "GET /api/settings/sites": CHANGERS,
+  "POST /api/settings/sites": OWNER,
+  "PUT /api/settings/sites/[id]": OWNER,
+  "POST /api/settings/sites/[id]/zones": OWNER,
+  "PATCH /api/settings/zones/[id]": OWNER,
+  "DELETE /api/settings/zones/[id]": OWNER,
+  "GET /api/settings/tanks": CHANGERS,
+  "POST /api/settings/tanks": CHANGERS,
+  "PUT /api/settings/tanks/[id]": CHANGERS,
+  "GET /api/settings/probes": CHANGERS,
+  "POST /api/settings/probes": CHANGERS,
+  "POST /api/settings/probes/[id]/move": CHANGERS,
+  "POST /api/settings/probes/[id]/retire": CHANGERS,
+  "POST /api/settings/probes/[id]/replace": CHANGERS,
+  "GET /api/settings/devices": OWNER,
+  "POST /api/settings/devices": OWNER,
+  "POST /api/settings/devices/[id]/rotate": OWNER,
+  "POST /api/settings/devices/[id]/revoke": OWNER,
+  "GET /api/settings/preferences": ALL,
+  "PATCH /api/settings/preferences": ALL,
+  "GET /api/settings/audit": OWNER,
+  "GET /api/exports/readings": OWNER,
+  "GET /api/exports/calibrations": OWNER,
+};

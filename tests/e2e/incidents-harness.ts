@@ -1,0 +1,120 @@
+// What the incident and hold end-to-end tests share: the alert runner fed by the ingest's
+// committed readings (its reading topic) until ingest/main.ts runs it itself, quick rule
+// overrides for one tank, the mail sink, and simulator faults.
+import fs from "node:fs";
+import path from "node:path";
+import { inject } from "vitest";
+import mqtt, { type MqttClient } from "mqtt";
+import { createClient, type Client } from "@libsql/client";
+import { SERVICE_ACCOUNTS, topics } from "@/ingest/topics";
+import { readingBatch, type CalibratedReading, type SimFault } from "@/ingest/payloads";
+import { ROOT, waitFor } from "./stack";
+
+export interface Harness {
+  db: Client;
+  mqtt: MqttClient;
+  tank(name: string): Promise<{ id: number; controllerId: string; siteId: number }>;
+  /** Faster rules (and a wider temperature band) for one tank, so a test waits seconds, not minutes. */
+  quickRules(tankId: number): Promise<void>;
+  fault(controllerId: string, fault: SimFault, measure?: "ph" | "ec" | "temp"): Promise<void>;
+  mails(to: string, subjectPart: string): Promise<{ subject: string; text: string; to: string[] }[]>;
+  incidents(tankId: number, cause: string): Promise<{ id: number; state: string; cleared_at: number | null; opened_at: number; acknowledged_by: number | null }[]>;
+  stop(): Promise<void>;
+}
+
+const QUICK = { fireDelayMs: 3000, clearDelayMs: 3000 };
+
+export async function startHarness(): Promise<Harness> {
+  // The ingest writes every second: wait for its locks rather than fail.
+  const db = createClient({ url: inject("databaseUrl"), timeout: 10_000 });
+  const client = await mqtt.connectAsync(inject("mqttUrl"), {
+    clientId: `tidewell-web-e2e-${process.pid}-${Math.random().toString(36).slice(2, 6)}`,
+    username: SERVICE_ACCOUNTS.web.username,
+    password: SERVICE_ACCOUNTS.web.password(),
+  });
+  let stopRunner = async () => {};
+  // Once the lead wires the runner into the ingest (ingest/alerts/wire.ts), the ingest runs it.
+  if (!fs.readFileSync(path.join(ROOT, "ingest/main.ts"), "utf8").includes("alerts/wire")) {
+    process.env.DATABASE_URL = inject("databaseUrl");
+    // Links in mail point at the stack's web server and are signed with its secret (global-setup.ts).
+    process.env.APP_URL = inject("baseURL");
+    process.env.AUTH_SECRET = "e2e-secret-e2e-secret-e2e-secret-0000";
+    const { getDb } = await import("@/db/client");
+    const { createAlertRunner } = await import("@/ingest/alerts/runner");
+    process.env.SMTP_URL = `smtp://127.0.0.1:${await smtpPortOf()}`;
+    const runner = createAlertRunner({ db: getDb(), publish: (t, p, o) => client.publishAsync(t, p, o), resolveAfterMs: 5000, contextTtlMs: 1000 });
+    // Like the ingest's hook: one batch at a time, then the tick (here every second, not 30 s).
+    const pending: CalibratedReading[] = [];
+    client.on("message", (topic, payload) => {
+      if (!topic.endsWith("/reading")) return;
+      const batch = readingBatch.safeParse(JSON.parse(payload.toString()));
+      if (batch.success) pending.push(...batch.data.readings);
+    });
+    await client.subscribeAsync(topics.readingWildcard, { qos: 0 });
+    let running = true;
+    const loop = (async () => {
+      while (running) {
+        await runner.onReadings(pending.splice(0)).catch(() => undefined);
+        await runner.tick().catch(() => undefined);
+        await new Promise((r) => setTimeout(r, 1000));
+      }
+    })();
+    stopRunner = async () => {
+      running = false;
+      await loop;
+    };
+  }
+
+  return {
+    db,
+    mqtt: client,
+    async tank(name) {
+      const r = await db.execute({ sql: "SELECT id, controller_id, site_id FROM tanks WHERE name = ?", args: [name] });
+      return { id: Number(r.rows[0].id), controllerId: String(r.rows[0].controller_id), siteId: Number(r.rows[0].site_id) };
+    },
+    async quickRules(tankId) {
+      const org = await db.execute({ sql: "SELECT s.org_id FROM tanks t JOIN sites s ON s.id = t.site_id WHERE t.id = ?", args: [tankId] });
+      const orgId = Number(org.rows[0].org_id);
+      const rows: [string, boolean, Record<string, number>][] = [
+        ["out-of-band", true, QUICK],
+        ["rate-of-change", false, {}], // the simulator's faults step rather than drift
+        ["hold-overrun", true, { "settling.afterReleaseMs": 15_000 }],
+      ];
+      // The tests fault the solution temperature (the simulator's one fault that ends at once); a
+      // wider band keeps a cool night's 18 °C solution clear of the hysteresis margin when it ends.
+      await db.execute({ sql: "UPDATE tanks SET temp_min = 16, temp_max = 24 WHERE id = ?", args: [tankId] });
+      for (const [cause, enabled, settings] of rows) {
+        await db.execute({ sql: "INSERT INTO alert_rules (org_id, tank_id, cause, enabled, settings) VALUES (?, ?, ?, ?, ?)", args: [orgId, tankId, cause, enabled ? 1 : 0, JSON.stringify(settings)] });
+      }
+    },
+    async fault(controllerId, fault, measure) {
+      await client.publishAsync(topics.simControl(controllerId), JSON.stringify({ v: 1, fault, ...(measure ? { measure } : {}) }), { qos: 1 });
+    },
+    async mails(to, subjectPart) {
+      const res = await fetch(`${inject("mailSinkURL")}/messages?to=${encodeURIComponent(to)}`);
+      const { messages } = (await res.json()) as { messages: { subject: string; text: string; to: string[] }[] };
+      return messages.filter((m) => m.subject.includes(subjectPart));
+    },
+    async incidents(tankId, cause) {
+      const r = await db.execute({ sql: "SELECT id, state, cleared_at, opened_at, acknowledged_by FROM incidents WHERE tank_id = ? AND cause = ? ORDER BY id", args: [tankId, cause] });
+      return r.rows.map((x) => ({ id: Number(x.id), state: String(x.state), cleared_at: x.cleared_at === null ? null : Number(x.cleared_at), opened_at: Number(x.opened_at), acknowledged_by: x.acknowledged_by === null ? null : Number(x.acknowledged_by) }));
+    },
+    async stop() {
+      await stopRunner();
+      await client.endAsync();
+      db.close();
+    },
+  };
+}
+
+/** The sink's SMTP port, as it announced it in its log. */
+async function smtpPortOf(): Promise<number> {
+  let port = 0;
+  await waitFor("the mail sink's SMTP port", async () => {
+    const log = fs.readFileSync(path.join(inject("workDir"), "mail-sink.log"), "utf8");
+    const m = /SMTP on 127\.0\.0\.1:(\d+)/.exec(log);
+    if (m) port = Number(m[1]);
+    return port > 0;
+  });
+  return port;
+}

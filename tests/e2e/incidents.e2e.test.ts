@@ -1,0 +1,123 @@
+// Incidents end to end: simulator fault → broker → ingest → alert runner → incident → mail to
+// the role on shift → the signed link in Chromium acknowledges it → the fault clears → resolved.
+// Then the owner filters the history and exports it as CSV.
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import type { Browser } from "playwright-core";
+import Papa from "papaparse";
+import { onShift } from "@/ingest/alerts/shifts";
+import { launch, shot, signInAs } from "./browser";
+import { sessionFor } from "./session";
+import { waitFor } from "./stack";
+import { startHarness, type Harness } from "./incidents-harness";
+
+describe("incidents", () => {
+  const baseURL = inject("baseURL");
+  let h: Harness;
+  let browser: Browser;
+  beforeAll(async () => {
+    h = await startHarness();
+    browser = await launch();
+  });
+  afterAll(async () => {
+    await h?.fault("ctl-north-g3", "none");
+    await browser?.close();
+    await h?.stop();
+  });
+
+  it("a fault opens an incident, the role on shift gets the mail, its link acknowledges, clearing resolves it", async () => {
+    const tank = await h.tank("G3 Pak choi");
+    await h.quickRules(tank.id);
+    const site = (await h.db.execute({ sql: "SELECT * FROM sites WHERE id = ?", args: [tank.siteId] })).rows[0];
+    const role = onShift(
+      { timeZone: String(site.time_zone), dayStartHour: Number(site.day_start_hour), nightStartHour: Number(site.night_start_hour), dayRole: site.day_role as never, nightRole: site.night_role as never },
+      Date.now(),
+    ).role;
+    const recipient = (await h.db.execute({ sql: "SELECT id, email, name FROM users WHERE role = ? AND org_id = ? AND active = 1", args: [role, Number(site.org_id)] })).rows[0];
+
+    await h.fault(tank.controllerId, "out-of-band", "temp");
+    await waitFor("the incident", async () => (await h.incidents(tank.id, "out-of-band")).some((i) => i.state === "open"), 120_000, 500);
+    const [incident] = (await h.incidents(tank.id, "out-of-band")).filter((i) => i.state === "open");
+    await waitFor("the mail", async () => (await h.mails(String(recipient.email), "G3 Pak choi: Out of band")).length > 0, 60_000, 500);
+    const [mail] = await h.mails(String(recipient.email), "G3 Pak choi: Out of band");
+    expect(mail.text).toContain(`/incidents/${incident.id}`);
+    const link = /(https?:\/\/\S+\/ack\/\S+)/.exec(mail.text)![1];
+    expect(link.startsWith(baseURL)).toBe(true);
+
+    // Opening the link (as a mail scanner would) changes nothing.
+    const page = await browser.newPage();
+    await page.goto(link);
+    await page.getByRole("heading", { name: "Acknowledge this incident?" }).waitFor();
+    expect((await h.incidents(tank.id, "out-of-band")).find((i) => i.id === incident.id)?.state).toBe("open");
+    await shot(page, "ack-link-confirm");
+    await page.getByRole("button", { name: "Acknowledge" }).click();
+    await page.getByRole("heading", { name: "Acknowledged — thank you" }).waitFor();
+    await shot(page, "ack-link-done");
+    const acked = (await h.incidents(tank.id, "out-of-band")).find((i) => i.id === incident.id)!;
+    expect(acked).toMatchObject({ state: "acknowledged", acknowledged_by: Number(recipient.id) });
+    // The link works once.
+    await page.goto(link);
+    await page.getByRole("heading", { name: "This incident is already acknowledged" }).waitFor();
+    await page.close();
+
+    const notified = await h.db.execute({ sql: "SELECT detail FROM incident_events WHERE incident_id = ? AND kind = 'notified'", args: [incident.id] });
+    expect(String(notified.rows[0].detail)).toContain(String(recipient.name));
+
+    await h.fault(tank.controllerId, "none", "temp");
+    await waitFor("the incident to resolve", async () => (await h.incidents(tank.id, "out-of-band")).find((i) => i.id === incident.id)?.state === "resolved", 120_000, 500);
+    const kinds = await h.db.execute({ sql: "SELECT kind FROM incident_events WHERE incident_id = ? ORDER BY id", args: [incident.id] });
+    expect(kinds.rows.map((r) => r.kind)).toEqual(["opened", "notified", "acknowledged", "cleared", "resolved"]);
+
+    // The owner sees the timeline and the readings around it.
+    const context = await browser.newContext({ viewport: { width: 1440, height: 1100 } });
+    const owner = await context.newPage();
+    await signInAs(owner, baseURL, "owner");
+    await owner.goto(`${baseURL}/incidents/${incident.id}`);
+    await owner.locator("[data-event=resolved]").waitFor();
+    await owner.locator("[data-incident-chart] canvas").first().waitFor();
+    await shot(owner, "incident-timeline");
+    await context.close();
+  }, 240_000);
+
+  it("the owner filters the incident history and exports it as CSV", async () => {
+    const context = await browser.newContext({ viewport: { width: 1440, height: 1100 }, acceptDownloads: true });
+    const page = await context.newPage();
+    await signInAs(page, baseURL, "owner");
+    await page.goto(`${baseURL}/incidents`);
+    await page.locator("[data-table=incident-history] tbody tr").first().waitFor();
+    await shot(page, "incident-history");
+    await page.locator("select[name=cause]").selectOption("stale");
+    await page.getByRole("button", { name: "Apply" }).click();
+    await page.waitForURL(/cause=stale/);
+    const rows = page.locator("[data-table=incident-history] tbody tr[data-row]");
+    await expect.poll(() => rows.count()).toBeGreaterThan(0);
+    const causes = await page.locator("[data-table=incident-history] tbody tr[data-row] td:nth-child(4)").allTextContents();
+    expect(new Set(causes)).toEqual(new Set(["Stale data"]));
+    await shot(page, "incident-history-filtered");
+
+    const download = page.waitForEvent("download");
+    await page.getByRole("link", { name: "Export CSV" }).click();
+    const file = await (await download).path();
+    const { readFile } = await import("node:fs/promises");
+    const parsed = Papa.parse<Record<string, string>>(await readFile(file, "utf8"), { header: true, skipEmptyLines: true });
+    expect(parsed.meta.fields).toContain("minutes_to_acknowledge");
+    expect(parsed.data.length).toBeGreaterThanOrEqual(causes.length);
+    expect(new Set(parsed.data.map((r) => r.cause))).toEqual(new Set(["Stale data"]));
+    await context.close();
+
+    // The export is the owner's alone.
+    const grower = await sessionFor(baseURL, "grower");
+    expect((await grower.fetch("/api/incidents/export")).status).toBe(403);
+  });
+
+  it("the owner's demo mailbox lists the mail with its links clickable", async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 1000 } });
+    const page = await context.newPage();
+    await signInAs(page, baseURL, "owner");
+    await page.goto(`${baseURL}/mailbox`);
+    await page.locator("[data-mail]").first().waitFor();
+    await page.locator("[data-mail] summary").first().click();
+    await page.locator("[data-mail] a[href*='/ack/']").first().waitFor();
+    await shot(page, "mailbox");
+    await context.close();
+  });
+});

@@ -1,0 +1,378 @@
+// Guided runs, manual entries, spot checks and CSV import against a real, migrated temporary
+// SQLite file. Readings are written with explicit timestamps (the probe's raw mV or µS as a
+// device would publish them), so nothing waits on the wall clock.
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { afterAll, beforeAll, beforeEach, describe, expect, it } from "vitest";
+import { createClient, type Client } from "@libsql/client";
+import { drizzle } from "drizzle-orm/libsql";
+import { migrate } from "drizzle-orm/libsql/migrator";
+import { and, eq, isNull, sql } from "drizzle-orm";
+import type { Db } from "@/db/client";
+import * as schema from "@/db/schema";
+import { MIGRATIONS_FOLDER } from "@/db/migrate";
+import { abandonRun, capturePoint, completeRun, confirmStep, getRunView, startRun } from "@/db/queries/calibration-runs";
+import { calibrationInForce } from "@/db/queries/calibration-scope";
+import { createManualCalibration } from "@/db/queries/calibration-manual";
+import { probeRecord } from "@/db/queries/calibration-history";
+import { calibrationCompliance } from "@/db/queries/calibration-compliance";
+import { addSpotCheck, importSpotChecksCsv, listSpotChecks } from "@/db/queries/spot-checks";
+import { ApiError } from "@/app/_server/errors";
+import { DAY_MS, bufferPh, ecStandardAt, nernstSlopeMv, phFromMv } from "@/lib/calibration";
+
+const T0 = Date.UTC(2026, 11, 2, 10, 0);
+const SEC = 1000;
+
+let dir: string;
+let client: Client;
+let db: Db;
+let user: { id: number; orgId: number };
+let otherOrg: { id: number; orgId: number };
+let tankId: number;
+let ph: number;
+let ec: number;
+let temp: number;
+
+/** A glass electrode's mV (DOMAIN.md section 1: E = E0 − s·k(T)·(pH − 7)). */
+function electrodeMv(phValue: number, tempC: number, slopePct: number, offsetMv: number) {
+  return offsetMv - (slopePct / 100) * nernstSlopeMv(tempC) * (phValue - 7);
+}
+
+/** Writes one raw sample per second for a probe, ending at `end` (inclusive). */
+async function feed(probeId: number, end: number, seconds: number, raw: (ts: number) => number) {
+  const rows = [];
+  for (let ts = end - seconds * SEC; ts <= end; ts += SEC) rows.push({ probeId, ts, raw: raw(ts), value: null, quality: "held" as const });
+  await db
+    .insert(schema.readings)
+    .values(rows)
+    .onConflictDoUpdate({ target: [schema.readings.probeId, schema.readings.ts], set: { raw: sql`excluded.raw` } });
+}
+
+async function feedTemperature(end: number, tempC: number) {
+  await db.insert(schema.readings).values({ probeId: temp, ts: end, raw: tempC, value: tempC, quality: "ok" }).onConflictDoNothing();
+}
+
+async function refusal(p: Promise<unknown>): Promise<ApiError> {
+  try {
+    await p;
+  } catch (e) {
+    if (e instanceof ApiError) return e;
+    throw e;
+  }
+  throw new Error("expected a refusal");
+}
+
+beforeAll(async () => {
+  dir = fs.mkdtempSync(path.join(os.tmpdir(), "tidewell-cal-"));
+  client = createClient({ url: `file:${path.join(dir, "cal.db")}` });
+  db = drizzle(client, { schema });
+  await migrate(db, { migrationsFolder: MIGRATIONS_FOLDER });
+  const [org] = await db.insert(schema.organisations).values({ name: "Test Farm" }).returning();
+  const [u] = await db.insert(schema.users).values({ orgId: org.id, email: "g@test.example", name: "Grower", role: "grower" }).returning();
+  user = { id: u.id, orgId: org.id };
+  const [org2] = await db.insert(schema.organisations).values({ name: "Other Farm" }).returning();
+  const [u2] = await db.insert(schema.users).values({ orgId: org2.id, email: "o@other.example", name: "Other", role: "owner" }).returning();
+  otherOrg = { id: u2.id, orgId: org2.id };
+  const [site] = await db.insert(schema.sites).values({ orgId: org.id, name: "Site A" }).returning();
+  const [tank] = await db
+    .insert(schema.tanks)
+    .values({ siteId: site.id, name: "T1", crop: "leafy greens", phMin: 5.5, phMax: 6.5, ecMinUs: 800, ecMaxUs: 1200, controllerId: "ctl-t1" })
+    .returning();
+  tankId = tank.id;
+  const probeRows = await db
+    .insert(schema.probes)
+    .values([
+      { tankId, kind: "ph", serial: "PH-1", installedAt: T0 - 100 * DAY_MS },
+      { tankId, kind: "ec", serial: "EC-1", installedAt: T0 - 100 * DAY_MS, nominalCellConstant: 1.0 },
+      { tankId, kind: "temp", serial: "TS-1", installedAt: T0 - 100 * DAY_MS },
+    ])
+    .returning();
+  [ph, ec, temp] = probeRows.map((p) => p.id);
+});
+
+afterAll(() => {
+  client?.close();
+  fs.rmSync(dir, { recursive: true, force: true });
+});
+
+beforeEach(async () => {
+  // Each test starts with the tank free of holds and runs in progress.
+  await db.update(schema.holds).set({ releasedAt: T0 - 1, releaseKind: "manual" }).where(isNull(schema.holds.releasedAt));
+  await db.update(schema.calibrationRuns).set({ status: "abandoned" }).where(eq(schema.calibrationRuns.status, "in_progress"));
+});
+
+/** Runs a guided pH run to its result with an electrode of the given slope and offset at 20 °C. */
+async function phRun(at: number, electrode: { slopePct: number; offsetMv: number }, opts: { asFound?: boolean } = {}) {
+  const { runId } = await startRun(db, user, { tankId, probeId: ph }, at);
+  let t = at;
+  let view = await getRunView(db, user.orgId, runId);
+  if (view.progress.steps[view.progress.current].key === "as-found") {
+    t += 60 * SEC;
+    await feedTemperature(t, 20);
+    await feed(ph, t, 35, () => electrodeMv(bufferPh("tech-7.00", 20), 20, electrode.slopePct, electrode.offsetMv));
+    if (opts.asFound === false) await confirmStep(db, user, runId, "skip-as-found", t);
+    else await capturePoint(db, user, runId, { purpose: "as_found", lot: "B7-1", expiresOn: "2027-09-30" }, t);
+  }
+  await confirmStep(db, user, runId, "clean", t);
+  for (const buffer of ["tech-7.00", "tech-4.01"] as const) {
+    t += 60 * SEC;
+    await feedTemperature(t, 20);
+    await feed(ph, t, 35, () => electrodeMv(bufferPh(buffer, 20), 20, electrode.slopePct, electrode.offsetMv));
+    await capturePoint(db, user, runId, { purpose: "point", lot: `L-${buffer}`, expiresOn: "2027-09-30" }, t);
+  }
+  view = await getRunView(db, user.orgId, runId);
+  return { runId, view, t };
+}
+
+describe("guided pH run", () => {
+  it("puts the tank on hold, walks the steps and fits slope and offset", async () => {
+    const { runId } = await startRun(db, user, { tankId, probeId: ph }, T0);
+    const [hold] = await db.select().from(schema.holds).where(and(eq(schema.holds.tankId, tankId), isNull(schema.holds.releasedAt)));
+    expect(hold.reason).toBe("Calibration run");
+    expect(hold.plannedEndAt - hold.placedAt).toBe(30 * 60_000);
+    // Starting again resumes the run in progress.
+    expect((await startRun(db, user, { tankId, probeId: ph }, T0 + SEC)).runId).toBe(runId);
+
+    let view = await getRunView(db, user.orgId, runId);
+    // Never calibrated: nothing to check as found, so the run starts at cleaning.
+    expect(view.progress.steps.map((s) => s.key)).toEqual(["clean", "point", "point", "result"]);
+    expect(view.progress.steps[1].standard).toBe("tech-7.00"); // neutral first by default
+    await confirmStep(db, user, runId, "clean", T0 + 10 * SEC);
+
+    const t1 = T0 + 60 * SEC;
+    await feedTemperature(t1, 20);
+    await feed(ph, t1, 35, () => electrodeMv(bufferPh("tech-7.00", 20), 20, 98, -5));
+    const p1 = await capturePoint(db, user, runId, { purpose: "point", lot: "B7-2611", expiresOn: "2027-09-30" }, t1);
+    // Commercial 7.00 buffer at 20 °C is 7.02 (DOMAIN.md section 2, typical maker table, from memory).
+    expect(p1.expected).toBeCloseTo(7.02, 6);
+    expect(p1.tempSource).toBe("probe");
+    expect(p1.stable).toBe(true);
+
+    const t2 = T0 + 120 * SEC;
+    await feed(ph, t2, 35, () => electrodeMv(bufferPh("tech-4.01", 21.5), 21.5, 98, -5));
+    await capturePoint(db, user, runId, { purpose: "point", lot: "B4-2611", expiresOn: "2027-09-30", tempC: 21.5 }, t2);
+
+    view = await getRunView(db, user.orgId, runId);
+    expect(view.progress.steps[view.progress.current].key).toBe("result");
+    expect(view.preview && "slopePct" in view.preview ? view.preview.slopePct : NaN).toBeCloseTo(98, 6); // DOMAIN.md section 1, two-point formulas
+    const saved = await completeRun(db, user, runId, {}, T0 + 130 * SEC);
+    expect(saved.run.status).toBe("accepted");
+    expect(saved.run.slopePct).toBeCloseTo(98, 6);
+    expect(saved.run.offsetMv).toBeCloseTo(-5, 6);
+    expect(saved.run.effectiveAt).toBe(T0 + 130 * SEC);
+    expect((await calibrationInForce(db, ph, T0 + 131 * SEC))?.id).toBe(runId);
+    expect(await calibrationInForce(db, ph, T0 + 129 * SEC)).toBeNull();
+  });
+
+  it("records the as-found error of the calibration in force before adjusting", async () => {
+    const at = T0 + 5 * DAY_MS;
+    // The electrode drifted to offset −2 mV; the calibration in force says −5 mV.
+    const { view } = await phRun(at, { slopePct: 98, offsetMv: -2 });
+    expect(view.progress.steps[0].key).toBe("as-found");
+    const expectedError = (-5 - -2) / (0.98 * nernstSlopeMv(20)); // pH = 7 + (E0 − E)/(s·k) minus the buffer pH
+    expect(view.run.asFoundErrorPh).toBeCloseTo(expectedError, 6);
+    await completeRun(db, user, view.run.id, {}, at + 10 * 60 * SEC);
+    const record = await probeRecord(db, user.orgId, ph, at + DAY_MS);
+    expect(record.status).toBe("current");
+    expect(record.drift?.checks).toBe(1);
+    expect(record.drift!.ratePerDay!).toBeCloseTo(Math.abs(expectedError) / ((at + 60 * SEC - (T0 + 130 * SEC)) / DAY_MS), 6);
+    expect(record.drift!.suggestedDueAt).toBeLessThanOrEqual(record.dueAt!);
+  });
+
+  it("refuses an expired buffer with the reason", async () => {
+    const at = T0 + 6 * DAY_MS;
+    const { runId } = await startRun(db, user, { tankId, probeId: ph }, at);
+    await confirmStep(db, user, runId, "skip-as-found", at);
+    await confirmStep(db, user, runId, "clean", at);
+    await feedTemperature(at + 60 * SEC, 20);
+    await feed(ph, at + 60 * SEC, 35, () => 0);
+    const err = await refusal(capturePoint(db, user, runId, { purpose: "point", lot: "OLD", expiresOn: "2026-11-30" }, at + 60 * SEC));
+    expect(err.status).toBe(422);
+    expect(err.message).toMatch(/expired on 2026-11-30/);
+    expect(err.fields?.expiresOn).toBeDefined();
+    const missingLot = await refusal(capturePoint(db, user, runId, { purpose: "point" }, at + 60 * SEC));
+    expect(Object.keys(missingLot.fields ?? {})).toEqual(["lot", "expiresOn"]);
+  });
+
+  it("captures an unsettled reading only with a note", async () => {
+    const at = T0 + 7 * DAY_MS;
+    const { runId } = await startRun(db, user, { tankId, probeId: ph }, at);
+    await confirmStep(db, user, runId, "skip-as-found", at);
+    await confirmStep(db, user, runId, "clean", at);
+    const t = at + 60 * SEC;
+    await feedTemperature(t, 20);
+    await feed(ph, t, 35, (ts) => (ts - t) / 1000); // drifting 1 mV a second
+    const err = await refusal(capturePoint(db, user, runId, { purpose: "point", lot: "A", expiresOn: "2027-01-01" }, t));
+    expect(err.status).toBe(422);
+    expect(err.message).toMatch(/not settled/);
+    const point = await capturePoint(db, user, runId, { purpose: "point", lot: "A", expiresOn: "2027-01-01", note: "Probe slow to settle; captured as is" }, t);
+    expect(point.stable).toBe(false);
+    expect(point.note).toMatch(/slow to settle/);
+    await abandonRun(db, user, runId, t);
+  });
+
+  it("refuses a capture with no live reading, and a point out of step order", async () => {
+    const at = T0 + 8 * DAY_MS;
+    const { runId } = await startRun(db, user, { tankId, probeId: ph }, at);
+    const outOfOrder = await refusal(capturePoint(db, user, runId, { purpose: "point", lot: "A", expiresOn: "2027-01-01" }, at));
+    expect(outOfOrder.status).toBe(409);
+    await confirmStep(db, user, runId, "skip-as-found", at);
+    await confirmStep(db, user, runId, "clean", at);
+    const stale = await refusal(capturePoint(db, user, runId, { purpose: "point", lot: "A", expiresOn: "2027-01-01", tempC: 20 }, at + 10 * 60 * SEC));
+    expect(stale.message).toMatch(/No reading from the probe/);
+    await abandonRun(db, user, runId, at);
+  });
+
+  it("marks the probe for replacement after a second rejection in a row", async () => {
+    const at = T0 + 10 * DAY_MS;
+    const first = await phRun(at, { slopePct: 86, offsetMv: -5 }, { asFound: false });
+    expect(first.view.preview && "verdict" in first.view.preview ? first.view.preview.verdict : null).toBe("rejected");
+    const r1 = await completeRun(db, user, first.runId, {}, first.t);
+    expect(r1.run.status).toBe("rejected");
+    expect(r1.run.reasons.join(" ")).toMatch(/below the 90 % minimum/); // acceptance: common practice (DOMAIN.md section 1)
+    expect(r1.probeMarkedForReplacement).toBe(false);
+    expect(r1.run.effectiveAt).toBeNull();
+
+    const second = await phRun(first.t + 60 * 60 * SEC, { slopePct: 87, offsetMv: -5 }, { asFound: false });
+    expect(second.view.previousRejected).toBe(true);
+    const r2 = await completeRun(db, user, second.runId, {}, second.t);
+    expect(r2.probeMarkedForReplacement).toBe(true);
+    const [probe] = await db.select().from(schema.probes).where(eq(schema.probes.id, ph));
+    expect(probe.status).toBe("replace");
+
+    // A later accepted calibration puts it back in service.
+    const third = await phRun(second.t + 60 * 60 * SEC, { slopePct: 99, offsetMv: -3 }, { asFound: false });
+    expect((await completeRun(db, user, third.runId, {}, third.t)).run.status).toBe("accepted");
+    const [after] = await db.select().from(schema.probes).where(eq(schema.probes.id, ph));
+    expect(after.status).toBe("active");
+  });
+
+  it("keeps other organisations out", async () => {
+    const { runId } = await startRun(db, user, { tankId, probeId: ph }, T0 + 12 * DAY_MS);
+    expect((await refusal(getRunView(db, otherOrg.orgId, runId))).status).toBe(404);
+    expect((await refusal(startRun(db, otherOrg, { tankId, probeId: ph }))).status).toBe(404);
+    expect((await refusal(capturePoint(db, otherOrg, runId, { purpose: "point" }))).status).toBe(404);
+  });
+});
+
+describe("guided EC run", () => {
+  it("computes the cell constant from the standard and judges it against nominal", async () => {
+    const at = T0 + 14 * DAY_MS;
+    const { runId } = await startRun(db, user, { tankId, probeId: ec }, at);
+    const view = await getRunView(db, user.orgId, runId);
+    expect(view.progress.steps.map((s) => s.key)).toEqual(["clean", "point", "result"]);
+    await confirmStep(db, user, runId, "clean", at);
+    const t = at + 60 * SEC;
+    await feedTemperature(t, 25);
+    // 0.01 mol/L KCl: 1413 µS/cm at 25 °C (OIML R 56); a cell of K = 0.98 /cm reads 1413/0.98 µS.
+    await feed(ec, t, 35, () => 1413 / 0.98);
+    const point = await capturePoint(db, user, runId, { purpose: "point", lot: "K1413-1", expiresOn: "2027-04-30" }, t);
+    expect(point.expected).toBeCloseTo(ecStandardAt("kcl-0.01M", 25), 9);
+    const saved = await completeRun(db, user, runId, {}, t);
+    expect(saved.run.status).toBe("accepted");
+    expect(saved.run.cellConstant).toBeCloseTo(0.98, 9);
+    expect(saved.run.deviationPct).toBeCloseTo(-2, 9);
+  });
+});
+
+describe("manual calibration entries", () => {
+  it("records a calibration done elsewhere, effective at its own time", async () => {
+    const performedAt = T0 + 15 * DAY_MS;
+    // Readings stored before the entry was made, corrected with the calibration then in force.
+    for (const ts of [performedAt + 60 * SEC, performedAt + 120 * SEC]) {
+      await feedTemperature(ts, 20);
+      await db.insert(schema.readings).values({ probeId: ph, ts, raw: 12, value: 6.5, quality: "ok" });
+    }
+    const { run, recomputed } = await createManualCalibration(
+      db,
+      user,
+      { probeId: ph, performedAt, slopePct: 97.2, offsetMv: 4.1, standards: [{ standard: "tech-7.00", lot: "M7", expiresOn: "2027-03-01", tempC: 20 }], note: "Handheld meter, J. Park" },
+      performedAt + DAY_MS,
+    );
+    expect(run.source).toBe("manual");
+    expect(recomputed).not.toBeNull();
+    expect(run.status).toBe("accepted");
+    expect(run.effectiveAt).toBe(performedAt);
+    expect((await calibrationInForce(db, ph, performedAt + SEC))?.id).toBe(run.id);
+    const after = await db.select().from(schema.readings).where(and(eq(schema.readings.probeId, ph), eq(schema.readings.ts, performedAt + 60 * SEC)));
+    expect(after[0].calibrationRunId).toBe(run.id);
+    expect(after[0].value).toBeCloseTo(phFromMv(12, 20, { slopePct: 97.2, offsetMv: 4.1 }), 9);
+  });
+
+  it("refuses a buffer already expired when the calibration was done", async () => {
+    const err = await refusal(
+      createManualCalibration(db, user, { probeId: ph, performedAt: T0, slopePct: 99, offsetMv: 0, standards: [{ standard: "tech-7.00", lot: "X", expiresOn: "2026-12-01" }] }, T0 + DAY_MS),
+    );
+    expect(err.status).toBe(422);
+    expect(err.message).toMatch(/expired/);
+  });
+
+  it("rejects a cell constant more than 10 % from nominal", async () => {
+    const { run } = await createManualCalibration(db, user, { probeId: ec, performedAt: T0 + 16 * DAY_MS, cellConstant: 1.15, standards: [{ standard: "kcl-0.01M", lot: "K", expiresOn: "2027-04-30" }] }, T0 + 16 * DAY_MS);
+    expect(run.status).toBe("rejected"); // ±10 % of nominal, common practice (DOMAIN.md section 3)
+    expect(run.effectiveAt).toBeNull();
+  });
+});
+
+describe("spot checks", () => {
+  const at = T0 + 20 * DAY_MS;
+  beforeAll(async () => {
+    await db.insert(schema.readings).values([
+      { probeId: ph, ts: at - 3 * 60 * SEC, raw: 0, value: 5.5, quality: "ok" },
+      { probeId: ph, ts: at - 50 * SEC, raw: 0, value: 6.0, quality: "ok" },
+      { probeId: ph, ts: at + 70 * SEC, raw: 0, value: 6.4, quality: "ok" },
+      { probeId: ec, ts: at, raw: 0, value: 1000, quality: "ok" },
+    ]);
+  });
+
+  it("compares with the nearest corrected reading within ±2 min and flags a difference past tolerance", async () => {
+    const within = await addSpotCheck(db, user, { probeId: ph, takenAt: at, meterValue: 6.05 }, at);
+    expect(within.spotCheck.tidewellValue).toBe(6.0);
+    expect(within.spotCheck.difference).toBeCloseTo(0.05, 9);
+    expect(within.spotCheck.pastTolerance).toBe(false);
+    const past = await addSpotCheck(db, user, { probeId: ph, takenAt: at, meterValue: 6.25 }, at);
+    expect(past.spotCheck.pastTolerance).toBe(true); // the tank's default tolerance is 0.1 pH
+    const none = await addSpotCheck(db, user, { probeId: ph, takenAt: at + 10 * 60 * SEC, meterValue: 6 }, at + 10 * 60 * SEC);
+    expect(none.spotCheck.tidewellValue).toBeNull();
+    expect(none.spotCheck.pastTolerance).toBe(false);
+    expect((await listSpotChecks(db, user.orgId, ph)).rows.length).toBe(3);
+  });
+
+  it("imports a CSV in one transaction: all rows, or none when any row is wrong", async () => {
+    const before = (await listSpotChecks(db, user.orgId, ec)).rows.length;
+    const bad = [
+      "probe,taken_at,value,unit,note",
+      `EC-1,${new Date(at).toISOString()},1.05,mS/cm,ok row`,
+      `NOPE-9,${new Date(at).toISOString()},6.1,,`,
+      `PH-1,yesterday,6.1,,`,
+      `PH-1,${new Date(at).toISOString()},abc,,`,
+    ].join("\n");
+    const err = await refusal(importSpotChecksCsv(db, user, bad, at));
+    expect(err.status).toBe(422);
+    expect(Object.keys(err.fields ?? {})).toEqual(["row 3", "row 4", "row 5"]);
+    expect(err.fields?.["row 3"]).toMatch(/No probe with serial NOPE-9/);
+    expect((await listSpotChecks(db, user.orgId, ec)).rows.length).toBe(before);
+
+    const good = ["probe,taken_at,value,unit", `EC-1,${new Date(at).toISOString()},1.05,mS/cm`, `EC-1,${new Date(at).toISOString().slice(0, 16)},1250,µS/cm`].join("\n");
+    const result = await importSpotChecksCsv(db, user, good, at);
+    expect(result).toEqual({ imported: 2, pastTolerance: 1 }); // 1050 vs 1000 is within 100 µS/cm; 1250 is not
+    expect((await listSpotChecks(db, user.orgId, ec)).rows.length).toBe(before + 2);
+  });
+
+  it("refuses serials of another organisation as unknown", async () => {
+    const err = await refusal(importSpotChecksCsv(db, otherOrg, `probe,taken_at,value\nPH-1,${new Date(at).toISOString()},6`, at));
+    expect(err.fields?.["row 2"]).toMatch(/No probe with serial PH-1/);
+  });
+});
+
+describe("compliance", () => {
+  it("counts probes in date, overdue probes and runs per month per site", async () => {
+    const [site] = await calibrationCompliance(db, user.orgId, T0 + 21 * DAY_MS);
+    expect(site.probes).toBe(2);
+    expect(site.inDate).toBe(2);
+    expect(site.overdue).toEqual([]);
+    expect(site.perMonth.reduce((a, m) => a + m.accepted + m.rejected, 0)).toBeGreaterThan(0);
+    expect(site.rejected.length).toBeGreaterThanOrEqual(2);
+  });
+});
