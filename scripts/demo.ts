@@ -1,4 +1,4 @@
-// `npm run demo`: migrate, seed if empty, build, then run every process of the demo under one
+// `npm run demo`: build, migrate, seed if empty, then run every process of the demo under one
 // supervisor on loopback. Ctrl-C stops them all.
 import fs from "node:fs";
 import path from "node:path";
@@ -20,24 +20,25 @@ const env = {
 };
 Object.assign(process.env, env);
 
-await applyMigrations();
-const credentialsFile = path.join(process.cwd(), "data", "device-credentials.json");
-if (await seedIfEmpty(getDb(), getClient(), { credentialsFile })) console.log("[demo] seeded the demo farm");
-getClient().close();
-
 if (process.env.DEMO_SKIP_BUILD !== "1" || !fs.existsSync(".next/BUILD_ID")) {
   console.log("[demo] building the web app (about a minute)…");
   const build = spawnSync("npx", ["next", "build"], { stdio: "inherit", env: { ...process.env, ...env } });
   if (build.status !== 0) process.exit(build.status ?? 1);
 }
 
+// Seed after the build, so the seeded history ends moments before the simulator takes over.
+await applyMigrations();
+const credentialsFile = path.join(process.cwd(), "data", "device-credentials.json");
+if (await seedIfEmpty(getDb(), getClient(), { credentialsFile })) console.log("[demo] seeded the demo farm");
+getClient().close();
+
 const commands = [
   { name: "mail", command: "tsx scripts/mail-sink.ts", prefixColor: "magenta" },
-  { name: "broker", command: "tsx ingest/broker-main.ts", prefixColor: "blue", when: "ingest/broker-main.ts" },
-  { name: "ingest", command: "tsx ingest/main.ts", prefixColor: "cyan", when: "ingest/main.ts" },
-  { name: "sim", command: "tsx scripts/simulator/main.ts", prefixColor: "yellow", when: "scripts/simulator/main.ts" },
+  { name: "broker", command: "tsx ingest/broker-main.ts", prefixColor: "blue" },
+  { name: "ingest", command: "tsx ingest/main.ts", prefixColor: "cyan" },
+  { name: "sim", command: "tsx scripts/simulator/main.ts", prefixColor: "yellow" },
   { name: "web", command: `next start -H 127.0.0.1 -p ${PORT}`, prefixColor: "green" },
-].filter((c) => !c.when || fs.existsSync(c.when));
+];
 
 const { result } = concurrently(
   commands.map(({ name, command, prefixColor }) => ({ name, command, prefixColor, env })),

@@ -63,6 +63,14 @@ async function readJson(req: Request): Promise<unknown> {
   }
 }
 
+/**
+ * Reads and validates a JSON body inside a handler. Routes on one record use it after looking the
+ * record up in the caller's organisation, so another farm's ids answer 404 whatever the body says.
+ */
+export async function parseBody<S extends Schema>(req: Request, schema: S): Promise<z.output<S>> {
+  return parse(schema, await readJson(req), "request body") as z.output<S>;
+}
+
 /** Wraps a route handler: session, role, zod-parsed params/query/body, JSON result. */
 export function guarded<P extends Schema | undefined = undefined, Q extends Schema | undefined = undefined, B extends Schema | undefined = undefined>(
   spec: RouteSpec<P, Q, B>,

@@ -62,6 +62,8 @@ export function useLiveStream(scope: { site?: number; tank?: number }, since: nu
       });
       es.addEventListener("readings", (e) => {
         seen(e);
+        setStatus("live"); // readings only come through a connected broker
+
         const { tankId, readings } = JSON.parse(e.data) as { tankId: number; readings: StreamReading[] };
         handlersRef.current.readings?.(tankId, readings);
       });

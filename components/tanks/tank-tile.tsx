@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { MEASURE_SHORT } from "@/lib/display/labels";
 import { format } from "date-fns";
 import { PauseCircle } from "lucide-react";
 import type { TankOverview } from "@/db/queries/overview";
@@ -36,7 +37,6 @@ export function toStateInput(t: TankOverview, now: number) {
   };
 }
 
-const MEASURE_LABEL = { ph: "pH", ec: "EC", temp: "Temp" } as const;
 const SIDE_WORD = { low: "low", high: "high", suspect: "suspect", "no-data": "no data", "in-band": "" } as const;
 
 /**
@@ -103,7 +103,7 @@ export function TankTile({
           return (
             <div key={m.kind} data-measure={m.kind} data-measure-state={state}>
               <dt className={cn("font-semibold tracking-wide text-ink-soft", wall ? "text-base" : "text-xs")}>
-                {MEASURE_LABEL[m.kind]}
+                {MEASURE_SHORT[m.kind]}
                 <span className="ml-1 normal-case tracking-normal text-ink-faint">{m.kind === "ec" ? ecUnitLabel(ecUnit) : m.kind === "temp" ? "°C" : ""}</span>
               </dt>
               <dd className={cn("num font-semibold leading-tight", wall ? "text-5xl" : "text-3xl", out && !tank.hold && state !== "no-data" ? "text-bad" : "text-ink")}>
@@ -117,7 +117,7 @@ export function TankTile({
                     to={spark.to}
                     band={[m.min, m.max]}
                     convert={m.kind === "ec" ? (v) => ecInUnit(v, ecUnit) : undefined}
-                    label={`${MEASURE_LABEL[m.kind]} over the last 30 minutes`}
+                    label={`${MEASURE_SHORT[m.kind]} over the last 30 minutes`}
                     large={wall}
                   />
                 </div>
@@ -127,7 +127,7 @@ export function TankTile({
                   value={m.value === null ? null : m.kind === "ec" ? ecInUnit(m.value, ecUnit) : m.value}
                   min={m.kind === "ec" ? ecInUnit(m.min, ecUnit) : m.min}
                   max={m.kind === "ec" ? ecInUnit(m.max, ecUnit) : m.max}
-                  label={`${MEASURE_LABEL[m.kind]} target band ${band}`}
+                  label={`${MEASURE_SHORT[m.kind]} target band ${band}`}
                 />
               </div>
               <p className={cn("num mt-1 text-ink-faint", wall ? "text-sm" : "text-[11px]")}>
@@ -144,7 +144,7 @@ export function TankTile({
           .filter((p) => p.kind !== "temp")
           .map((p) => (
             <span key={p.id} className="inline-flex items-center gap-1 text-ink-soft">
-              {MEASURE_LABEL[p.kind]} calibration <CalibrationBadge status={p.calibration.status} />
+              {MEASURE_SHORT[p.kind]} calibration <CalibrationBadge status={p.calibration.status} />
             </span>
           ))}
         {tank.hold ? (

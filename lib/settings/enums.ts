@@ -12,4 +12,4 @@ true satisfies EcUnit extends (typeof EC_UNITS)[number] ? true : never;
 true satisfies ProbeKind extends (typeof PROBE_KINDS)[number] ? true : never;
 
 export const ROLE_NAMES: Record<Role, string> = { owner: "Owner", grower: "Grower", night_manager: "Night manager" };
-export const PROBE_KIND_NAMES: Record<ProbeKind, string> = { ph: "pH", ec: "EC", temp: "Temperature" };
+export { MEASURE_NAME as PROBE_KIND_NAMES } from "../display/labels";

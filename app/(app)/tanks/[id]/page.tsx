@@ -1,4 +1,5 @@
 import { requestNow } from "@/app/_server/clock";
+import { MEASURE_SHORT } from "@/lib/display/labels";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
@@ -28,7 +29,7 @@ export default async function TankPage({ params }: { params: Promise<{ id: strin
     db.select().from(holds).where(eq(holds.tankId, id)).orderBy(desc(holds.placedAt)).limit(6),
     db.select().from(incidents).where(and(eq(incidents.tankId, id), eq(incidents.orgId, user.orgId))).orderBy(desc(incidents.openedAt)).limit(6),
   ]);
-  const serial = new Map(tank.probes.map((p) => [p.id, `${p.kind.toUpperCase()} ${p.serial}`]));
+  const serial = new Map(tank.probes.map((p) => [p.id, `${MEASURE_SHORT[p.kind]} ${p.serial}`]));
   return (
     <>
       <PageHeader title={tank.name} subtitle={`${tank.siteName}${tank.zoneName ? ` · ${tank.zoneName}` : ""} · ${tank.crop}`} actions={user.role !== "night_manager" ? <Link href={`/calibrations/new?tank=${tank.id}`} className="inline-flex h-11 items-center rounded-md bg-accent-700 px-4 text-sm font-medium text-white hover:bg-accent-800">Calibrate</Link> : null} />
@@ -43,7 +44,7 @@ export default async function TankPage({ params }: { params: Promise<{ id: strin
               {tank.probes.map((p) => (
                 <li key={p.id} className="flex items-center justify-between gap-2">
                   <span>
-                    <span className="font-medium uppercase">{p.kind}</span> <code className="font-mono text-xs text-ink-soft">{p.serial}</code>
+                    <span className="font-medium">{MEASURE_SHORT[p.kind]}</span> <code className="font-mono text-xs text-ink-soft">{p.serial}</code>
                   </span>
                   <CalibrationBadge status={p.calibration.status} />
                 </li>
