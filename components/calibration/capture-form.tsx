@@ -42,6 +42,8 @@ export function CaptureForm({
           expiresOn: expiresOn || undefined,
           tempC: typeTemp || noTemp ? (tempC === "" ? undefined : Number(tempC)) : undefined,
           note: early ? note : undefined,
+          // The reading on screen: the server judges its stability, not that of a later sample.
+          readingTs: live?.latest?.ts,
         },
       }),
     onSuccess: async () => {

@@ -5,27 +5,11 @@ import { useState } from "react";
 import Papa from "papaparse";
 import { CircleCheck, TriangleAlert } from "lucide-react";
 import { Button } from "@/components/ui/button";
-import { ecUnitLabel, type EcUnit } from "@/lib/display/units";
+import { ecToMicrosiemens, ecUnitLabel, type EcUnit } from "@/lib/display/units";
 import { ApiRefusal, api } from "./api";
 import { toLocalInput, type ProbeOption, KIND_LABEL } from "./probe-options";
 
 const field = "h-12 w-full rounded-md border border-paper-line bg-paper-raised px-3 text-base";
-
-/** A value typed in the user's EC unit, in µS/cm (the inverse of lib/display/units). */
-function ecToUs(value: number, unit: EcUnit): number {
-  switch (unit) {
-    case "mS/cm":
-      return value * 1000;
-    case "µS/cm":
-      return value;
-    case "ppm-500":
-      return (value / 500) * 1000;
-    case "ppm-700":
-      return (value / 700) * 1000;
-    case "CF":
-      return (value / 10) * 1000;
-  }
-}
 
 interface SpotResult {
   spotCheck: { difference: number | null; pastTolerance: boolean; tidewellValue: number | null };
@@ -50,7 +34,7 @@ export function SpotCheckForm({ probes, initialProbeId, ecUnit, now }: { probes:
     try {
       const r = await api<SpotResult>(`/api/probes/${probe.id}/spot-checks`, {
         method: "POST",
-        json: { takenAt: new Date(takenAt).getTime(), meterValue: probe.kind === "ec" ? ecToUs(v, ecUnit) : v, note: note || undefined },
+        json: { takenAt: new Date(takenAt).getTime(), meterValue: probe.kind === "ec" ? ecToMicrosiemens(v, ecUnit) : v, note: note || undefined },
       });
       setResult(r);
       router.refresh();

@@ -3,7 +3,7 @@ import { useState } from "react";
 import { Input } from "@/components/ui/input";
 import type { ControlProps } from "@/components/ui/field";
 import { ecDecimals, ecInUnit, type EcUnit } from "@/lib/display/units";
-import { ecToMicrosiemens } from "@/lib/settings/ec-input";
+import { ecToMicrosiemens } from "@/lib/display/units";
 
 /** An EC value typed in the user's unit; the form holds µS/cm, as stored. */
 export function EcInput({ control, valueUs, unit, onChange, onBlur }: { control: ControlProps; valueUs: number; unit: EcUnit; onChange: (us: number) => void; onBlur: () => void }) {

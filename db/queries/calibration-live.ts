@@ -1,13 +1,13 @@
 // The live reading of a probe during a calibration run: recent raw and corrected readings from
 // the readings table, the tank's temperature, and whether the raw signal has settled.
-import { and, asc, desc, eq, gt, gte } from "drizzle-orm";
+import { and, asc, desc, eq, gt, gte, lte } from "drizzle-orm";
 import type { Db } from "../client";
-import { readings, type ProbeKind, type QualityFlag } from "../schema";
-import { fitEcStability, fitPhStability, phFromMv, type Stability } from "../../lib/calibration";
+import { readings, tanks, type ProbeKind, type QualityFlag } from "../schema";
+import { ecFromConductance, fitEcStability, fitPhStability, parseStabilityWindowMs, phFromMv, type Stability } from "../../lib/calibration";
 import { calibrationInForce, temperatureProbeOf, type ProbeRow } from "./calibration-scope";
 
-/** The stability window: < 0.01 pH (or 0.5 % conductance) over 30 s. */
-export const STABILITY_WINDOW_MS = 30_000;
+/** The stability window: < 0.01 pH (or 0.5 % conductance) over 30 s by default; env CALIBRATION_STABILITY_WINDOW_MS. */
+export const STABILITY_WINDOW_MS = parseStabilityWindowMs(process.env.CALIBRATION_STABILITY_WINDOW_MS);
 /** A reading older than this is not live (the probe is disconnected or the controller offline). */
 export const LIVE_FRESH_MS = 15_000;
 /** The tank's temperature reading is used when it is this recent. */
@@ -28,13 +28,16 @@ export interface LiveSnapshot {
   /** The latest reading is recent enough to capture. */
   fresh: boolean;
   temperature: { ts: number; value: number } | null;
-  /** pH: spread in pH (raw mV through the calibration in force); EC: spread in % of the latest. */
-  stability: Stability & { unit: "pH" | "%" };
+  /** pH: spread in pH (raw mV through the calibration in force); EC: spread in % of the latest, at 25 °C. */
+  stability: Stability & { unit: "pH" | "%"; windowMs: number };
 }
 
-/** Readings newer than `since` (at most two minutes back) plus the stability of the last 30 s. */
-export async function liveSnapshot(db: Db, probe: ProbeRow, opts: { since?: number; now: number }): Promise<LiveSnapshot> {
+/** Readings newer than `since` (at most two minutes back) plus the stability over the window. */
+export async function liveSnapshot(db: Db, probe: ProbeRow, opts: { since?: number; now: number; asOf?: number }): Promise<LiveSnapshot> {
   const { now } = opts;
+  // `asOf`: judge the reading at that time (the one the grower saw), ignoring later samples;
+  // freshness is still measured against now.
+  const upTo = Math.min(opts.asOf ?? now, now);
   const since = Math.max(opts.since ?? 0, now - HISTORY_MS);
   const recent = await db
     .select({ ts: readings.ts, raw: readings.raw, value: readings.value, quality: readings.quality })
@@ -46,28 +49,37 @@ export async function liveSnapshot(db: Db, probe: ProbeRow, opts: { since?: numb
   const windowRows = await db
     .select({ ts: readings.ts, raw: readings.raw })
     .from(readings)
-    .where(and(eq(readings.probeId, probe.id), gte(readings.ts, now - STABILITY_WINDOW_MS - LIVE_FRESH_MS)))
+    .where(and(eq(readings.probeId, probe.id), gte(readings.ts, upTo - STABILITY_WINDOW_MS - LIVE_FRESH_MS), lte(readings.ts, upTo)))
     .orderBy(desc(readings.ts))
     .limit(400);
   const [latestRow] = await db
     .select({ ts: readings.ts, raw: readings.raw, value: readings.value, quality: readings.quality })
     .from(readings)
-    .where(eq(readings.probeId, probe.id))
+    .where(and(eq(readings.probeId, probe.id), lte(readings.ts, upTo)))
     .orderBy(desc(readings.ts))
     .limit(1);
 
   const temperature = await latestTemperature(db, probe.tankId, now);
+  // Each sample at its own temperature (automatic temperature compensation), so a buffer or
+  // standard warming in its cup does not read as an unsettled probe. Conductance moves about
+  // 2 % per °C, so without it an EC standard settling to the room's temperature hovers at the
+  // 0.5 % limit for minutes and the verdict flips between polls.
+  const temps = await temperatureSeries(db, probe.tankId, upTo - STABILITY_WINDOW_MS - LIVE_FRESH_MS - TEMPERATURE_FRESH_MS);
+  const tempAt = (ts: number) => temps.findLast((t) => t.ts <= ts)?.value ?? temps[0]?.value ?? temperature?.value ?? 25;
   let stability: Stability;
   if (probe.kind === "ph") {
     const cal = (await calibrationInForce(db, probe.id, now)) ?? { slopePct: 100, offsetMv: 0 };
     const calibration = { slopePct: cal.slopePct ?? 100, offsetMv: cal.offsetMv ?? 0 };
-    // Each sample at its own temperature (automatic temperature compensation), so a buffer
-    // warming in its cup does not read as an unsettled probe.
-    const temps = await temperatureSeries(db, probe.tankId, now - STABILITY_WINDOW_MS - LIVE_FRESH_MS - TEMPERATURE_FRESH_MS);
-    const tempAt = (ts: number) => temps.findLast((t) => t.ts <= ts)?.value ?? temps[0]?.value ?? temperature?.value ?? 25;
     stability = fitPhStability(windowRows.map((r) => ({ t: r.ts, ph: phFromMv(r.raw, tempAt(r.ts), calibration) })), { windowMs: STABILITY_WINDOW_MS });
   } else {
-    stability = fitEcStability(windowRows.map((r) => ({ t: r.ts, conductanceUs: r.raw })), { windowMs: STABILITY_WINDOW_MS });
+    // The spread is relative, so the cell constant does not matter; the tank's coefficient is the
+    // one its readings are compensated with.
+    const [tank] = await db.select({ alphaPerC: tanks.ecAlphaPerC }).from(tanks).where(eq(tanks.id, probe.tankId)).limit(1);
+    const compensation = { cellConstant: 1, alphaPerC: tank?.alphaPerC ?? 0.019 };
+    stability = fitEcStability(
+      windowRows.filter((r) => r.raw >= 0).map((r) => ({ t: r.ts, conductanceUs: ecFromConductance(r.raw, tempAt(r.ts), compensation) })),
+      { windowMs: STABILITY_WINDOW_MS },
+    );
   }
   const latest = latestRow ?? null;
   const fresh = latest !== null && now - latest.ts <= LIVE_FRESH_MS;
@@ -77,7 +89,7 @@ export async function liveSnapshot(db: Db, probe: ProbeRow, opts: { since?: numb
     latest,
     fresh,
     temperature,
-    stability: { ...stability, stable: stability.stable && fresh, unit: probe.kind === "ph" ? "pH" : "%" },
+    stability: { ...stability, stable: stability.stable && fresh, unit: probe.kind === "ph" ? "pH" : "%", windowMs: STABILITY_WINDOW_MS },
   };
 }
 

@@ -222,6 +222,12 @@ export interface CaptureInput {
   tempC?: number;
   /** Required to capture a reading that is not yet stable. */
   note?: string;
+  /**
+   * The time of the reading the grower saw and chose to capture. Its stability is judged over the
+   * window ending there, so a sample arriving between their click and the request cannot turn
+   * a stable reading into a refusal.
+   */
+  readingTs?: number;
 }
 
 /** Refuses an expired buffer or standard, with the reason. */
@@ -253,7 +259,7 @@ export async function capturePoint(db: Db, user: Actor, runId: number, input: Ca
   }
   checkExpiry(input.expiresOn, now);
 
-  const live = await liveSnapshot(db, probe, { now, since: now - 1 });
+  const live = await liveSnapshot(db, probe, { now, since: now - 1, asOf: input.readingTs });
   if (!live.latest || !live.fresh) throw unprocessable("No reading from the probe in the last 15 seconds: check it is connected and in the buffer, then try again.");
   if (!live.stability.stable && !input.note?.trim()) {
     throw unprocessable(

@@ -51,3 +51,4 @@ export { DAY_MS } from "./time";
 export { fitEcStability, type ConductanceSample, type EcStabilityOptions } from "./ec-stability";
 export { runProgress, type RunProgress, type RunProgressInput, type RunStep, type RunStepKey } from "./run-steps";
 export { parseStandardText, standardLabel, EC_STANDARD_LABELS } from "./standard-text";
+export { DEFAULT_STABILITY_WINDOW_MS, parseStabilityWindowMs } from "./stability-window";

@@ -19,6 +19,22 @@ export function ecInUnit(us: number, unit: EcUnit): number {
   }
 }
 
+/** A value typed in the user's EC unit, in µS/cm: the inverse of ecInUnit. */
+export function ecToMicrosiemens(value: number, unit: EcUnit): number {
+  switch (unit) {
+    case "mS/cm":
+      return value * 1000;
+    case "µS/cm":
+      return value;
+    case "ppm-500":
+      return (value / 500) * 1000;
+    case "ppm-700":
+      return (value / 700) * 1000;
+    case "CF":
+      return (value / 10) * 1000;
+  }
+}
+
 export function ecDecimals(unit: EcUnit): number {
   return unit === "mS/cm" ? 2 : unit === "CF" ? 1 : 0;
 }

@@ -28,21 +28,42 @@ describe("guided calibration", () => {
     tank = { id, ph: of("ph"), ec: of("ec") };
   });
   afterAll(async () => {
+    // Even after a failure, L1 must not stay held (or a run stay open) for later test files.
+    if (db && tank) {
+      const grower = await sessionFor(baseURL, "grower");
+      const post = (path: string) => grower.fetch(path, { method: "POST", headers: { "content-type": "application/json" }, body: "{}" });
+      const open = await db.execute({ sql: "SELECT id FROM calibration_runs WHERE tank_id = ? AND status = 'in_progress'", args: [tank.id] });
+      for (const r of open.rows) expect((await post(`/api/calibrations/runs/${r.id}/abandon`)).ok).toBe(true);
+      const held = await db.execute({ sql: "SELECT id FROM holds WHERE tank_id = ? AND released_at IS NULL", args: [tank.id] });
+      for (const h of held.rows) expect((await post(`/api/holds/${h.id}/release`)).ok).toBe(true);
+    }
     await browser?.close();
     db?.close();
   });
 
-  const step = (page: Page, key: string) => page.locator(`[data-current-step="${key}"]`).waitFor({ timeout: 30_000 });
+  /** Waits for what the page should show; on failure keeps a screenshot and the page's refusal, if any. */
+  async function expectShown(page: Page, what: Promise<unknown>, label: string) {
+    try {
+      await what;
+    } catch (err) {
+      await shot(page, "calibration-failure").catch(() => undefined);
+      const alerts = await page.getByRole("alert").allTextContents().catch(() => []);
+      const shown = alerts.map((a) => a.trim()).filter(Boolean);
+      throw new Error(`${label} did not show${shown.length ? `; the page said: ${shown.join(" | ")}` : ""} (test-results/screenshots/calibration-failure.png)`, { cause: err });
+    }
+  }
+
+  const step = (page: Page, key: string) => expectShown(page, page.locator(`[data-current-step="${key}"]`).waitFor({ timeout: 30_000 }), `The ${key} step`);
   const runId = (page: Page) => Number(new URL(page.url()).pathname.split("/").pop());
 
   /** Places the simulated probe in this step's buffer; when the buffer changes, waits for the jump to show. */
   async function place(page: Page, changes: boolean) {
     await page.getByRole("button", { name: /Demo: place the simulated probe/ }).click();
-    if (changes) await page.locator('[data-stability="settling"]').waitFor({ timeout: 60_000 });
+    if (changes) await expectShown(page, page.locator('[data-stability="settling"]').waitFor({ timeout: 60_000 }), "The settling reading");
   }
 
   async function capture(page: Page, bottle?: { lot: string; expiresOn: string }) {
-    await page.locator('[data-stability="stable"]').waitFor({ timeout: STABLE_WAIT_MS });
+    await expectShown(page, page.locator('[data-stability="stable"]').waitFor({ timeout: STABLE_WAIT_MS }), "A stable reading");
     if (bottle) {
       await page.locator("input[name=lot]").fill(bottle.lot);
       await page.locator("input[name=expiresOn]").fill(bottle.expiresOn);

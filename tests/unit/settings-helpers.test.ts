@@ -1,7 +1,7 @@
 // Pure helpers of the settings screens: EC typed in the user's unit, audit text, file names, sections.
 import { describe, expect, it } from "vitest";
 import { ecInUnit } from "@/lib/display/units";
-import { ecToMicrosiemens } from "@/lib/settings/ec-input";
+import { ecToMicrosiemens } from "@/lib/display/units";
 import { describeAuditDetail } from "@/lib/settings/audit-text";
 import { csvFilename } from "@/lib/settings/csv-filename";
 import { maySee, sectionsFor } from "@/lib/settings/sections";

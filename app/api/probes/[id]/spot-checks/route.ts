@@ -2,8 +2,7 @@ import { z } from "zod";
 import { getDb } from "@/db/client";
 import { probeInOrg } from "@/db/queries/calibration-scope";
 import { addSpotCheck, listSpotChecks } from "@/db/queries/spot-checks";
-import { ALL_ROLES, CAN_CHANGE, guarded, idParam } from "@/app/_server/guard";
-import { parseBody } from "@/app/api/calibrations/_lib/body";
+import { ALL_ROLES, CAN_CHANGE, guarded, idParam, parseBody } from "@/app/_server/guard";
 
 export const GET = guarded({ roles: ALL_ROLES, params: idParam }, async ({ user, params }) => listSpotChecks(getDb(), user.orgId, params.id));
 

@@ -2,8 +2,7 @@ import { z } from "zod";
 import { getDb } from "@/db/client";
 import { completeRun } from "@/db/queries/calibration-runs";
 import { runInOrg } from "@/db/queries/calibration-scope";
-import { CAN_CHANGE, guarded, idParam } from "@/app/_server/guard";
-import { parseBody } from "../../../_lib/body";
+import { CAN_CHANGE, guarded, idParam, parseBody } from "@/app/_server/guard";
 import { announceCalibration } from "../../../_lib/announce";
 import { KIND_LABEL } from "@/components/calibration/probe-options";
 

@@ -2,8 +2,7 @@ import { z } from "zod";
 import { getDb } from "@/db/client";
 import { capturePoint } from "@/db/queries/calibration-runs";
 import { runInOrg } from "@/db/queries/calibration-scope";
-import { CAN_CHANGE, guarded, idParam } from "@/app/_server/guard";
-import { parseBody } from "../../../_lib/body";
+import { CAN_CHANGE, guarded, idParam, parseBody } from "@/app/_server/guard";
 
 const pointBody = z.object({
   purpose: z.enum(["as_found", "point"]),
@@ -11,6 +10,8 @@ const pointBody = z.object({
   expiresOn: z.iso.date("Enter the expiry date as YYYY-MM-DD").optional(),
   tempC: z.number().min(0).max(60).optional(),
   note: z.string().trim().max(1000).optional(),
+  /** The time of the reading shown when the grower clicked (ms epoch). */
+  readingTs: z.number().int().positive().optional(),
 });
 
 /** Captures the current step's point from the probe's live reading. */

@@ -5,12 +5,11 @@ import { getDb } from "@/db/client";
 import { getRunView } from "@/db/queries/calibration-runs";
 import { runInOrg } from "@/db/queries/calibration-scope";
 import { ApiError, notFound, unprocessable } from "@/app/_server/errors";
-import { CAN_CHANGE, guarded, idParam } from "@/app/_server/guard";
+import { CAN_CHANGE, guarded, idParam, parseBody } from "@/app/_server/guard";
 import { publish } from "@/app/_server/mqtt";
 import { ecStandardAt, parseStandardText, type EcStandardSpec } from "@/lib/calibration";
 import { simControl, type SimControl } from "@/ingest/payloads";
 import { topics } from "@/ingest/topics";
-import { parseBody } from "../../../_lib/body";
 
 export const POST = guarded({ roles: CAN_CHANGE, action: "change calibrations", params: idParam }, async ({ user, params, req }) => {
   const db = getDb();
