@@ -29,8 +29,6 @@ export interface AlertRunnerOptions {
   clock?: () => number;
   /** An incident whose condition stayed clear this long is resolved automatically. */
   resolveAfterMs?: number;
-  /** How long tank, rule and calibration data are reused between batches. */
-  contextTtlMs?: number;
   log?: (message: string, err?: unknown) => void;
 }
 
@@ -40,6 +38,8 @@ export interface AlertRunner {
 }
 
 export const AUTO_RESOLVE_AFTER_MS = 5 * 60_000;
+/** How long tank, rule and calibration data are reused between batches (every tick reloads them). */
+const CONTEXT_TTL_MS = 10_000;
 const PUBLISH_WAIT_MS = 5_000;
 
 /** Causes that page nobody and never escalate: the morning digest lists them. */
@@ -58,8 +58,10 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
     });
   const sendMail = o.sendMail ?? smtpSendMail;
   const clock = o.clock ?? Date.now;
+  // When this runner first looked. Before then nobody was watching (the worker was down or just
+  // deployed), so a probe gets one stale period from here to report before it counts as stale.
+  let watchingSince: number | null = null;
   const resolveAfterMs = o.resolveAfterMs ?? AUTO_RESOLVE_AFTER_MS;
-  const ttl = o.contextTtlMs ?? 10_000;
   const log = o.log ?? ((m: string, err?: unknown) => console.error(`[alerts] ${m}`, err ?? ""));
 
   let ctx: AlertContext | null = null;
@@ -76,7 +78,7 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
 
   async function context(fresh: boolean): Promise<AlertContext> {
     const wall = clock();
-    if (fresh || !ctx || wall - ctxAt > ttl) {
+    if (fresh || !ctx || wall - ctxAt > CONTEXT_TTL_MS) {
       ctx = await loadContext(db, wall);
       ctxAt = wall;
     }
@@ -221,6 +223,8 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
   }
 
   async function evaluateTimeRules(c: AlertContext, byTank: Map<number, TankHolds>, now: number) {
+    watchingSince ??= now;
+    const since = watchingSince;
     const probeIds = [...c.probes.keys()];
     const lastAt = await lastReadingTimes(db, probeIds);
     await ensureStates([...probeIds.map(probeKey), ...[...c.tanks.keys()].map(tankKey)]);
@@ -236,7 +240,7 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
           probeId: String(p.id),
           measure: p.kind,
           state: states.get(probeKey(p.id)) as never,
-          lastReadingAt: lastAt.get(p.id) ?? null,
+          lastReadingAt: lastSeenForStale(lastAt.get(p.id), states.get(probeKey(p.id)), since),
           calibration: calibrationInfo(tank, p, now),
         })),
         tank: {
@@ -327,4 +331,11 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
     onReadings: (readings) => serial(() => handleReadings(readings)),
     tick: (now) => serial(() => handleTick(now ?? clock())),
   };
+}
+
+/** A probe already stale stays judged by its real last reading; others start from `since`. */
+function lastSeenForStale(lastReadingAt: number | undefined, state: unknown, since: number): number | null {
+  if (lastReadingAt === undefined) return null;
+  if (isFiring(restoreProbeState(state), "stale")) return lastReadingAt;
+  return Math.max(lastReadingAt, since);
 }

@@ -45,6 +45,7 @@ export default async function setup(project: TestProject) {
     // The alert runner ticks every second and resolves after 5 s clear, so tests need not wait minutes.
     ALERTS_TICK_MS: "1000",
     ALERTS_RESOLVE_AFTER_MS: "5000",
+    CALIBRATION_STABILITY_WINDOW_MS: "6000",
   };
 
   const stopAll = () => {

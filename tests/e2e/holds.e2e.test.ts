@@ -6,7 +6,7 @@ import type { Browser } from "playwright-core";
 import { launch, shot, signInAs } from "./browser";
 import { sessionFor } from "./session";
 import { waitFor } from "./stack";
-import { startHarness, type Harness } from "./incidents-harness";
+import { QUICK_SETTLE_MS, startHarness, type Harness } from "./incidents-harness";
 
 /** Latest readings of a tank's probe of one kind, newest first. */
 async function latest(h: Harness, tankId: number, kind: string, n: number) {
@@ -72,11 +72,12 @@ describe("holds", () => {
     expect(audit.rows.map((r) => r.action)).toEqual(["hold.place"]);
     const mailsBefore = (await h.db.execute({ sql: "SELECT count(*) AS n FROM notifications n JOIN incidents i ON i.id = n.incident_id WHERE i.tank_id = ?", args: [tank.id] })).rows[0].n;
 
-    // Quiet: the fault ends and comes back while held — nothing clears, nothing new opens, nobody is mailed.
+    // Quiet: the fault ends and comes back while held — nothing clears, nothing new opens, nobody is
+    // mailed. Each phase lasts twice the tank's quick fire/clear delay (3 s), plus the 1 s tick.
     await h.fault(tank.controllerId, "none", "temp");
-    await heldFor(h, tank.id, 10_000, (v) => v < 21);
+    await heldFor(h, tank.id, 7_000, (v) => v < 21);
     await h.fault(tank.controllerId, "out-of-band", "temp");
-    await heldFor(h, tank.id, 10_000, (v) => v > 23);
+    await heldFor(h, tank.id, 7_000, (v) => v > 23);
     const during = await h.incidents(tank.id, "out-of-band");
     expect(during.filter((i) => i.opened_at > incident.opened_at)).toEqual([]);
     expect(during.find((i) => i.id === incident.id)?.cleared_at).toBeNull();
@@ -85,7 +86,7 @@ describe("holds", () => {
     const events = await h.db.execute({ sql: "SELECT kind FROM incident_events WHERE incident_id = ? ORDER BY id", args: [incident.id] });
     expect(events.rows.map((r) => r.kind)).toContain("held");
 
-    // Release: after settling (15 s for this tank) the rules run again and the incident clears.
+    // Release: after settling (QUICK_SETTLE_MS for this tank) the rules run again and the incident clears.
     await h.fault(tank.controllerId, "none", "temp");
     await tile.getByRole("button", { name: "Release hold" }).click();
     await tile.locator("[data-hold-control=live]").waitFor();
@@ -93,22 +94,38 @@ describe("holds", () => {
     expect(released.release_kind).toBe("manual");
     await waitFor("the incident to clear", async () => (await h.incidents(tank.id, "out-of-band")).find((i) => i.id === incident.id)?.cleared_at !== null, 90_000, 500);
     const cleared = (await h.incidents(tank.id, "out-of-band")).find((i) => i.id === incident.id)!;
-    expect(cleared.cleared_at!).toBeGreaterThanOrEqual(Number(released.released_at) + 15_000);
+    expect(cleared.cleared_at!).toBeGreaterThanOrEqual(Number(released.released_at) + QUICK_SETTLE_MS);
     await shot(page, "wall-after-release");
     await context.close();
   }, 300_000);
 
   it("a forgotten hold alerts, and escalates to the owner when nobody acknowledges", async () => {
     const tank = await h.tank("P2 Strawberry runners");
-    await h.db.execute({ sql: "UPDATE sites SET escalate_after_minutes = 1 WHERE id = ?", args: [tank.siteId] });
+    const owner = await sessionFor(baseURL, "owner");
+    // The shortest escalation delay the site settings accept.
+    const setEscalation = async (minutes: number) => {
+      const s = (await h.db.execute({ sql: "SELECT * FROM sites WHERE id = ?", args: [tank.siteId] })).rows[0];
+      const site = { name: s.name, timeZone: s.time_zone, dayStartHour: s.day_start_hour, nightStartHour: s.night_start_hour, dayRole: s.day_role, nightRole: s.night_role, escalateAfterMinutes: minutes, maxCalibrationIntervalDays: s.max_calibration_interval_days, maxHoldMinutes: s.max_hold_minutes };
+      const res = await owner.fetch(`/api/settings/sites/${tank.siteId}`, { method: "PUT", headers: { "content-type": "application/json" }, body: JSON.stringify(site) });
+      expect(res.status).toBe(200);
+    };
+    await setEscalation(1);
     try {
       const grower = await sessionFor(baseURL, "grower");
-      const res = await grower.fetch("/api/holds", { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ tankId: tank.id, reason: "EC standard check", minutes: 1 }) });
+      const res = await grower.fetch("/api/holds", { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ tankId: tank.id, reason: "EC standard check", minutes: 30 }) });
       expect(res.status).toBe(201);
       const { hold, dosing } = (await res.json()) as { hold: { id: number }; dosing: { status: string } };
       expect(dosing.status).toBe("sent");
-      await waitFor("the hold-overrun alert", async () => (await h.incidents(tank.id, "hold-overrun")).some((i) => i.state === "open"), 150_000, 1000);
-      await waitFor("the escalation", async () => (await h.mails("owner@larkspur.example", "Unacknowledged: P2 Strawberry runners: Hold overrunning")).length > 0, 150_000, 1000);
+      // Time passes in the database rather than on the wall clock: the planned end comes up now...
+      await h.db.execute({ sql: "UPDATE holds SET planned_end_at = ? WHERE id = ?", args: [Date.now() + 1000, hold.id] });
+      await waitFor("the hold-overrun alert", async () => (await h.incidents(tank.id, "hold-overrun")).some((i) => i.state === "open"), 60_000, 500);
+      const [overrun] = (await h.incidents(tank.id, "hold-overrun")).filter((i) => i.state === "open");
+      expect(await h.mails("owner@larkspur.example", "Unacknowledged: P2 Strawberry runners: Hold overrunning")).toEqual([]);
+      // ...and the alert has gone a minute without anybody acknowledging it.
+      await h.db.execute({ sql: "UPDATE incidents SET opened_at = opened_at - 60000 WHERE id = ? AND acknowledged_at IS NULL", args: [overrun.id] });
+      await waitFor("the escalation", async () => (await h.mails("owner@larkspur.example", "Unacknowledged: P2 Strawberry runners: Hold overrunning")).length > 0, 60_000, 500);
+      const events = await h.db.execute({ sql: "SELECT kind FROM incident_events WHERE incident_id = ? ORDER BY id", args: [overrun.id] });
+      expect(events.rows.map((r) => r.kind)).toContain("escalated");
       const release = await grower.fetch(`/api/holds/${hold.id}/release`, { method: "POST" });
       expect(release.status).toBe(200);
       // Releasing twice is refused with the one error shape.
@@ -116,9 +133,9 @@ describe("holds", () => {
       expect(again.status).toBe(409);
       expect(((await again.json()) as { error: { code: string } }).error.code).toBe("conflict");
     } finally {
-      await h.db.execute({ sql: "UPDATE sites SET escalate_after_minutes = 15 WHERE id = ?", args: [tank.siteId] });
+      await setEscalation(15);
     }
-  }, 300_000);
+  }, 120_000);
 
   it("refuses a hold from the night manager and a hold longer than the site allows", async () => {
     const tank = await h.tank("L3 Romaine");

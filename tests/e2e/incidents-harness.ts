@@ -1,14 +1,11 @@
-// What the incident and hold end-to-end tests share: the alert runner fed by the ingest's
-// committed readings (its reading topic) until ingest/main.ts runs it itself, quick rule
-// overrides for one tank, the mail sink, and simulator faults.
-import fs from "node:fs";
-import path from "node:path";
+// What the incident and hold end-to-end tests share: quick rule overrides for one tank, the
+// mail sink, and simulator faults. The alert runner itself runs inside the stack's ingest
+// (ingest/hooks.ts → ingest/alerts/wire.ts, ticking every second per global-setup.ts).
 import { inject } from "vitest";
 import mqtt, { type MqttClient } from "mqtt";
 import { createClient, type Client } from "@libsql/client";
 import { SERVICE_ACCOUNTS, topics } from "@/ingest/topics";
-import { readingBatch, type CalibratedReading, type SimFault } from "@/ingest/payloads";
-import { ROOT, waitFor } from "./stack";
+import type { SimFault } from "@/ingest/payloads";
 
 export interface Harness {
   db: Client;
@@ -23,6 +20,8 @@ export interface Harness {
 }
 
 const QUICK = { fireDelayMs: 3000, clearDelayMs: 3000 };
+/** Settling after a hold on a quick-rules tank: longer than the clear delay, so a test can tell them apart. */
+export const QUICK_SETTLE_MS = 8000;
 
 export async function startHarness(): Promise<Harness> {
   // The ingest writes every second: wait for its locks rather than fail.
@@ -32,39 +31,6 @@ export async function startHarness(): Promise<Harness> {
     username: SERVICE_ACCOUNTS.web.username,
     password: SERVICE_ACCOUNTS.web.password(),
   });
-  let stopRunner = async () => {};
-  // Once the lead wires the runner into the ingest (ingest/alerts/wire.ts), the ingest runs it.
-  if (!fs.readFileSync(path.join(ROOT, "ingest/main.ts"), "utf8").includes("alerts/wire")) {
-    process.env.DATABASE_URL = inject("databaseUrl");
-    // Links in mail point at the stack's web server and are signed with its secret (global-setup.ts).
-    process.env.APP_URL = inject("baseURL");
-    process.env.AUTH_SECRET = "e2e-secret-e2e-secret-e2e-secret-0000";
-    const { getDb } = await import("@/db/client");
-    const { createAlertRunner } = await import("@/ingest/alerts/runner");
-    process.env.SMTP_URL = `smtp://127.0.0.1:${await smtpPortOf()}`;
-    const runner = createAlertRunner({ db: getDb(), publish: (t, p, o) => client.publishAsync(t, p, o), resolveAfterMs: 5000, contextTtlMs: 1000 });
-    // Like the ingest's hook: one batch at a time, then the tick (here every second, not 30 s).
-    const pending: CalibratedReading[] = [];
-    client.on("message", (topic, payload) => {
-      if (!topic.endsWith("/reading")) return;
-      const batch = readingBatch.safeParse(JSON.parse(payload.toString()));
-      if (batch.success) pending.push(...batch.data.readings);
-    });
-    await client.subscribeAsync(topics.readingWildcard, { qos: 0 });
-    let running = true;
-    const loop = (async () => {
-      while (running) {
-        await runner.onReadings(pending.splice(0)).catch(() => undefined);
-        await runner.tick().catch(() => undefined);
-        await new Promise((r) => setTimeout(r, 1000));
-      }
-    })();
-    stopRunner = async () => {
-      running = false;
-      await loop;
-    };
-  }
-
   return {
     db,
     mqtt: client,
@@ -78,7 +44,7 @@ export async function startHarness(): Promise<Harness> {
       const rows: [string, boolean, Record<string, number>][] = [
         ["out-of-band", true, QUICK],
         ["rate-of-change", false, {}], // the simulator's faults step rather than drift
-        ["hold-overrun", true, { "settling.afterReleaseMs": 15_000 }],
+        ["hold-overrun", true, { "settling.afterReleaseMs": QUICK_SETTLE_MS }],
       ];
       // The tests fault the solution temperature (the simulator's one fault that ends at once); a
       // wider band keeps a cool night's 18 °C solution clear of the hysteresis margin when it ends.
@@ -100,21 +66,8 @@ export async function startHarness(): Promise<Harness> {
       return r.rows.map((x) => ({ id: Number(x.id), state: String(x.state), cleared_at: x.cleared_at === null ? null : Number(x.cleared_at), opened_at: Number(x.opened_at), acknowledged_by: x.acknowledged_by === null ? null : Number(x.acknowledged_by) }));
     },
     async stop() {
-      await stopRunner();
       await client.endAsync();
       db.close();
     },
   };
-}
-
-/** The sink's SMTP port, as it announced it in its log. */
-async function smtpPortOf(): Promise<number> {
-  let port = 0;
-  await waitFor("the mail sink's SMTP port", async () => {
-    const log = fs.readFileSync(path.join(inject("workDir"), "mail-sink.log"), "utf8");
-    const m = /SMTP on 127\.0\.0\.1:(\d+)/.exec(log);
-    if (m) port = Number(m[1]);
-    return port > 0;
-  });
-  return port;
 }

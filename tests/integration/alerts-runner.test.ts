@@ -332,4 +332,16 @@ describe("alert runner", () => {
     expect(await mail("grower@larkspur.example", "North Greenhouse: ")).toHaveLength(1);
     expect(await mail("grower@larkspur.example", "Propagation House: ")).toHaveLength(1);
   });
+
+  it("gives probes one stale period to report after a gap nobody watched, then pages", async () => {
+    const staleBefore = (await db.select().from(schema.incidents).where(eq(schema.incidents.cause, "stale"))).length;
+    t += 10 * MIN; // the worker was down: no readings and no ticks for ten minutes
+    runner = newRunner();
+    await runner.tick(t);
+    expect((await db.select().from(schema.incidents).where(eq(schema.incidents.cause, "stale"))).length, "no page at once for a gap nobody watched").toBe(staleBefore);
+    t += 3 * MIN; // still nothing from any device: now it is stale (default 120 s, common practice)
+    await runner.tick(t);
+    await runner.tick(t + 30_000);
+    expect((await db.select().from(schema.incidents).where(eq(schema.incidents.cause, "stale"))).length).toBeGreaterThan(staleBefore);
+  });
 });
