@@ -4,9 +4,10 @@ import { useState } from "react";
 import { Button } from "@/components/ui/button";
 import { BUFFERS, BUFFER_IDS, EC_STANDARD_IDS, EC_STANDARD_LABELS } from "@/lib/calibration";
 import { ApiRefusal, api } from "./api";
-import { toLocalInput, type ProbeOption, KIND_LABEL } from "./probe-options";
+import { toLocalInput, type ProbeOption } from "./probe-options";
+import { FIELD_CLASS, ProbeSelect } from "./probe-select";
 
-const field = "h-12 w-full rounded-md border border-paper-line bg-paper-raised px-3 text-base";
+const field = FIELD_CLASS;
 const HYDRO_STANDARD = JSON.stringify({ ec25UsPerCm: 2770, alphaPerC: 0.019 });
 
 interface StandardRow {
@@ -87,16 +88,7 @@ export function ManualEntryForm({ probes, now }: { probes: ProbeOption[]; now: n
       }}
     >
       <div className="grid gap-3 sm:grid-cols-2">
-        <label className="block text-sm font-medium">
-          Probe
-          <select className={field} value={probeId} onChange={(e) => setProbeId(Number(e.target.value))}>
-            {probes.map((p) => (
-              <option key={p.id} value={p.id}>
-                {p.tankName} · {KIND_LABEL[p.kind]} {p.serial}
-              </option>
-            ))}
-          </select>
-        </label>
+        <ProbeSelect probes={probes} value={probeId} onChange={setProbeId} />
         <label className="block text-sm font-medium">
           Calibrated at
           <input className={field} type="datetime-local" value={performedAt} onChange={(e) => setPerformedAt(e.target.value)} />

@@ -7,9 +7,10 @@ import { CircleCheck, TriangleAlert } from "lucide-react";
 import { Button } from "@/components/ui/button";
 import { ecToMicrosiemens, ecUnitLabel, type EcUnit } from "@/lib/display/units";
 import { ApiRefusal, api } from "./api";
-import { toLocalInput, type ProbeOption, KIND_LABEL } from "./probe-options";
+import { toLocalInput, type ProbeOption } from "./probe-options";
+import { FIELD_CLASS, ProbeSelect } from "./probe-select";
 
-const field = "h-12 w-full rounded-md border border-paper-line bg-paper-raised px-3 text-base";
+const field = FIELD_CLASS;
 
 interface SpotResult {
   spotCheck: { difference: number | null; pastTolerance: boolean; tidewellValue: number | null };
@@ -52,16 +53,7 @@ export function SpotCheckForm({ probes, initialProbeId, ecUnit, now }: { probes:
       }}
     >
       <div className="grid gap-3 sm:grid-cols-3">
-        <label className="block text-sm font-medium">
-          Probe
-          <select className={field} value={probeId} onChange={(e) => setProbeId(Number(e.target.value))}>
-            {probes.map((p) => (
-              <option key={p.id} value={p.id}>
-                {p.tankName} · {KIND_LABEL[p.kind]} {p.serial}
-              </option>
-            ))}
-          </select>
-        </label>
+        <ProbeSelect probes={probes} value={probeId} onChange={setProbeId} />
         <label className="block text-sm font-medium">
           Taken at
           <input className={field} type="datetime-local" value={takenAt} onChange={(e) => setTakenAt(e.target.value)} />
