@@ -12,9 +12,9 @@ const DEMO_ACCOUNTS = [
   ["Night manager", "night@larkspur.example"],
 ] as const;
 
-export default async function SignInPage({ searchParams }: { searchParams: Promise<{ next?: string }> }) {
+export default async function SignInPage({ searchParams }: { searchParams: Promise<{ next?: string; email?: string }> }) {
   if (await currentUser()) redirect("/");
-  const { next } = await searchParams;
+  const { next, email } = await searchParams;
   const demo = process.env.TIDEWELL_DEMO === "1";
   return (
     <main className="grid min-h-dvh lg:grid-cols-[1.1fr_1fr]">
@@ -40,7 +40,7 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
           </div>
           <h1 className="text-2xl font-semibold">Sign in</h1>
           <p className="mb-6 mt-1 text-sm text-ink-soft">Use the account your farm&apos;s owner set up for you.</p>
-          <SignInForm next={next} />
+          <SignInForm next={next} email={email} />
           {demo ? (
             <div className="mt-8 rounded-md border border-paper-line bg-paper-raised p-4 text-sm">
               <p className="font-medium">Demo accounts</p>

@@ -4,7 +4,7 @@ import { LogIn } from "lucide-react";
 import { Button } from "@/components/ui/button";
 import { signInAction, type SignInState } from "./actions";
 
-export function SignInForm({ next }: { next?: string }) {
+export function SignInForm({ next, email }: { next?: string; email?: string }) {
   const [state, formAction, pending] = useActionState<SignInState, FormData>(signInAction, {});
   return (
     <form action={formAction} className="space-y-4" noValidate>
@@ -16,7 +16,7 @@ export function SignInForm({ next }: { next?: string }) {
           type="email"
           autoComplete="username"
           required
-          defaultValue={state.email}
+          defaultValue={state.email ?? email}
           className="mt-1 h-12 w-full rounded-md border border-paper-line bg-white px-3 text-base"
         />
       </label>
