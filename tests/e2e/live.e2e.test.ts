@@ -182,9 +182,16 @@ describe("live monitoring", () => {
     const page = await context.newPage();
     await signInAs(page, baseURL, "night_manager");
     await page.goto(`${baseURL}/tanks/${tank.id}`);
+    // Wait for the 1 h series itself, so the count below is not the default 24 h view's.
+    const oneHour = page.waitForResponse((r) => {
+      const u = new URL(r.url());
+      return u.pathname === `/api/tanks/${tank.id}/series` && r.ok() && Number(u.searchParams.get("to")) - Number(u.searchParams.get("from")) <= 3_660_000;
+    });
     await page.getByRole("button", { name: "1 h", exact: true }).click();
+    await oneHour;
     const ph = page.locator('[data-chart="pH"] [data-points]');
     await expect.poll(async () => Number(await ph.getAttribute("data-points")), { timeout: 30_000 }).toBeGreaterThan(0);
+    await page.waitForTimeout(500); // let the chart take the 1 h data
     const drawn = Number(await ph.getAttribute("data-points"));
     await expect.poll(async () => Number(await ph.getAttribute("data-points")), { timeout: 30_000, interval: 500 }).toBeGreaterThan(drawn);
     expect(await page.locator('[data-chart="pH"] canvas').count()).toBeGreaterThan(0);
