@@ -10,6 +10,7 @@ import { currentUser } from "@/app/_server/session";
 import { Card, PageHeader } from "@/components/ui/card";
 import { CalibrationBadge } from "@/components/tanks/state-badge";
 import { ComplianceView } from "@/components/calibration/compliance-view";
+import { ReportDownload, defaultReportPeriod } from "@/components/calibration/report-download";
 import { formatDateTime } from "@/lib/display/time";
 import { KIND_LABEL } from "@/components/calibration/probe-options";
 
@@ -101,7 +102,10 @@ export default async function CalibrationsPage() {
                 </td>
                 <td className="num px-4 py-3">{formatDateTime(probe.calibration.lastAcceptedAt)}</td>
                 <td className="num px-4 py-3">{formatDateTime(probe.calibration.dueAt)}</td>
-                <td className="px-4 py-3 text-right">
+                <td className="space-x-2 whitespace-nowrap px-4 py-3 text-right">
+                  <a href={`/api/reports/probes/${probe.id}`} className="inline-flex h-9 items-center rounded-md px-3 font-medium text-accent-700 hover:bg-paper-sunk" title="The last twelve months' calibration record as a PDF">
+                    Record (PDF)
+                  </a>
                   {canChange ? (
                     <Link href={`/calibrations/new?tank=${tank.id}&probe=${probe.id}`} className="inline-flex h-9 items-center rounded-md border border-paper-line px-3 font-medium hover:bg-paper-sunk">
                       Calibrate
@@ -114,6 +118,28 @@ export default async function CalibrationsPage() {
         </table>
       </Card>
       {compliance ? <ComplianceView sites={compliance} /> : null}
+      {compliance ? <SiteReports sites={compliance.map((c) => c.site)} now={now} /> : null}
     </>
+  );
+}
+
+/** The owner's compliance reports, one form per site. */
+function SiteReports({ sites, now }: { sites: { id: number; name: string }[]; now: number }) {
+  const period = defaultReportPeriod(now);
+  return (
+    <section aria-labelledby="site-reports" className="mt-6">
+      <h2 id="site-reports" className="mb-1 text-lg font-semibold">
+        Compliance reports
+      </h2>
+      <p className="mb-3 text-sm text-ink-soft">A PDF per site: compliance now, overdue probes, probes marked for replacement, runs per month and every run in the period.</p>
+      <div className="grid gap-4 xl:grid-cols-2">
+        {sites.map((s) => (
+          <Card key={s.id} className="p-4">
+            <h3 className="mb-2 font-semibold">{s.name}</h3>
+            <ReportDownload action={`/api/reports/sites/${s.id}`} label="Download the PDF" testId={`site-report-${s.id}`} defaultFrom={period.from} defaultTo={period.to} />
+          </Card>
+        ))}
+      </div>
+    </section>
   );
 }

@@ -12,11 +12,17 @@ import { Card, PageHeader } from "@/components/ui/card";
 import { CalibrationBadge } from "@/components/tanks/state-badge";
 import { TrendChart } from "@/components/calibration/trend-chart";
 import { SpotCheckTable } from "@/components/calibration/spot-check-table";
+import { ReportDownload, defaultReportPeriod } from "@/components/calibration/report-download";
 import { standardLabel } from "@/lib/calibration";
 import { formatDateTime } from "@/lib/display/time";
 
 export const metadata: Metadata = { title: "Probe" };
 export const dynamic = "force-dynamic";
+
+const periodDefaults = (now: number) => {
+  const p = defaultReportPeriod(now);
+  return { defaultFrom: p.from, defaultTo: p.to };
+};
 
 const LIFECYCLE = { active: "In service", replace: "Marked for replacement", retired: "Retired" } as const;
 
@@ -106,6 +112,13 @@ export default async function ProbePage({ params }: { params: Promise<{ id: stri
         <Card className="mb-6 p-4">
           <h2 className="mb-3 font-semibold">{probe.kind === "ph" ? "Slope and offset over time" : "Cell constant over time"}</h2>
           <TrendChart points={trend} kind={probe.kind} />
+        </Card>
+      ) : null}
+      {probe.kind !== "temp" ? (
+        <Card className="mb-6 p-4">
+          <h2 className="font-semibold">Calibration report</h2>
+          <p className="mb-3 text-sm text-ink-soft">Every run in the period with its points, buffers and lots, temperatures, result and who did it, as a PDF for auditors and buyers.</p>
+          <ReportDownload action={`/api/reports/probes/${probe.id}`} label="Download the PDF" testId="probe-report" {...periodDefaults(now)} />
         </Card>
       ) : null}
       <Card className="mb-6 overflow-x-auto">
