@@ -195,8 +195,10 @@ export const calibrationPoints = sqliteTable(
     capturedAt: integer("captured_at").notNull(),
     stable: integer("stable", { mode: "boolean" }).notNull().default(true),
     note: text("note"),
+    // A key the capturing device makes up, so a point sent again after a dropped connection is saved once.
+    clientKey: text("client_key"),
   },
-  (t) => [index("points_run_idx").on(t.runId)],
+  (t) => [index("points_run_idx").on(t.runId), uniqueIndex("points_run_client_key_unique").on(t.runId, t.clientKey)],
 );
 
 // Raw signal and corrected value for every probe sample; the hot table.

@@ -3,6 +3,7 @@ import { LogOut } from "lucide-react";
 import { currentUser, ROLE_LABEL } from "@/app/_server/session";
 import { Logo } from "@/components/logo";
 import { BottomNav, SideNav } from "@/components/shell/nav";
+import { OfflineBanner } from "@/components/pwa/offline-banner";
 import { navFor } from "@/components/shell/nav-items";
 import { signOutAction } from "./actions";
 
@@ -39,6 +40,7 @@ export default async function AppLayout({ children }: { children: React.ReactNod
             </button>
           </form>
         </header>
+        <OfflineBanner />
         <main className="mx-auto max-w-[1800px] p-4 pb-24 lg:p-8">{children}</main>
       </div>
       <BottomNav items={items} />

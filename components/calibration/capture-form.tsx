@@ -1,8 +1,10 @@
 "use client";
-import { useState } from "react";
-import { useMutation, useQueryClient } from "@tanstack/react-query";
+import { useCallback, useState } from "react";
+import { CloudOff } from "lucide-react";
 import { Button } from "@/components/ui/button";
-import { ApiRefusal, api } from "./api";
+import { ApiRefusal } from "./api";
+import { usePendingPoints } from "./pending-points";
+import { useOnline } from "@/components/pwa/offline-banner";
 import type { LiveJson } from "./types";
 
 const input = "h-12 w-full rounded-md border border-paper-line bg-paper-raised px-3 text-base";
@@ -21,7 +23,6 @@ export function CaptureForm({
   defaults: { lot?: string; expiresOn?: string };
   lotRequired: boolean;
 }) {
-  const qc = useQueryClient();
   const [lot, setLot] = useState(defaults.lot ?? "");
   const [expiresOn, setExpiresOn] = useState(defaults.expiresOn ?? "");
   const [typeTemp, setTypeTemp] = useState(false);
@@ -32,26 +33,22 @@ export function CaptureForm({
   const stable = Boolean(live?.stability.stable);
   const noTemp = !live?.temperature;
 
-  const capture = useMutation({
-    mutationFn: () =>
-      api(`/api/calibrations/runs/${runId}/points`, {
-        method: "POST",
-        json: {
-          purpose,
-          lot: lot.trim() || undefined,
-          expiresOn: expiresOn || undefined,
-          tempC: typeTemp || noTemp ? (tempC === "" ? undefined : Number(tempC)) : undefined,
-          note: early ? note : undefined,
-          // The reading on screen: the server judges its stability, not that of a later sample.
-          readingTs: live?.latest?.ts,
-        },
-      }),
-    onSuccess: async () => {
-      setError(null);
-      await qc.invalidateQueries({ queryKey: ["run", runId] });
-    },
-    onError: (e) => setError(e instanceof ApiRefusal ? e : new ApiRefusal("The point could not be captured.", 500)),
-  });
+  const onRefused = useCallback((e: ApiRefusal) => setError(e), []);
+  const { pending, add } = usePendingPoints(runId, onRefused);
+  const capture = () => {
+    setError(null);
+    add({
+      purpose,
+      lot: lot.trim() || undefined,
+      expiresOn: expiresOn || undefined,
+      tempC: typeTemp || noTemp ? (tempC === "" ? undefined : Number(tempC)) : undefined,
+      note: early ? note : undefined,
+      // The reading on screen: the server judges its stability, not that of a later sample.
+      readingTs: live?.latest?.ts,
+    });
+  };
+  const waiting = pending[0];
+  const online = useOnline();
 
   const canCapture = (stable || (early && note.trim().length > 0)) && (!lotRequired || (lot.trim() && expiresOn));
   return (
@@ -59,7 +56,7 @@ export function CaptureForm({
       className="space-y-4"
       onSubmit={(e) => {
         e.preventDefault();
-        capture.mutate();
+        capture();
       }}
     >
       <div className="grid gap-3 sm:grid-cols-2">
@@ -110,8 +107,27 @@ export function CaptureForm({
           {error.message}
         </p>
       ) : null}
-      <Button type="submit" size="lg" disabled={!canCapture || capture.isPending} className="w-full sm:w-auto">
-        {capture.isPending ? "Capturing…" : stable ? "Capture this reading" : early ? "Capture with the note" : "Waiting for a stable reading…"}
+      {!online && !waiting ? (
+        <p data-testid="capture-offline" className="flex items-start gap-2 rounded-md border border-warn/40 bg-warn/5 p-3 text-sm text-warn">
+          <CloudOff className="mt-0.5 size-4 shrink-0" aria-hidden />
+          <span>
+            No connection. The reading shown is the last one received
+            {live?.latest ? ` (${new Date(live.latest.ts).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit", second: "2-digit" })})` : ""}; a capture is kept on this device and the server
+            judges that reading when the connection returns.
+          </span>
+        </p>
+      ) : null}
+      {waiting ? (
+        <p data-testid="pending-point" role="status" className="flex items-start gap-2 rounded-md border border-held/40 bg-held/5 p-3 text-sm font-medium text-held">
+          <CloudOff className="mt-0.5 size-4 shrink-0" aria-hidden />
+          <span>
+            Captured at {new Date(waiting.pressedAt).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit", second: "2-digit" })} and kept on this device. It is sent as soon as the
+            connection returns; leave this page open or come back to it.
+          </span>
+        </p>
+      ) : null}
+      <Button type="submit" size="lg" disabled={!canCapture || Boolean(waiting)} className="w-full sm:w-auto">
+        {waiting ? "Sending when the connection returns…" : stable ? "Capture this reading" : early ? "Capture with the note" : "Waiting for a stable reading…"}
       </Button>
     </form>
   );

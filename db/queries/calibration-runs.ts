@@ -228,6 +228,23 @@ export interface CaptureInput {
    * a stable reading into a refusal.
    */
   readingTs?: number;
+  /** Made up by the capturing device: the same key sent twice saves one point. */
+  clientKey?: string;
+  /**
+   * How long the point waited on the device (offline) before it was sent, by the device's own
+   * clock. The point is judged as of the moment the grower pressed capture: now − queuedMs.
+   */
+  queuedMs?: number;
+}
+
+/** The point a device already sent with this key, if any. */
+async function pointByClientKey(db: Db, runId: number, clientKey: string) {
+  const [row] = await db
+    .select()
+    .from(calibrationPoints)
+    .where(and(eq(calibrationPoints.runId, runId), eq(calibrationPoints.clientKey, clientKey)))
+    .limit(1);
+  return row ?? null;
 }
 
 /** Refuses an expired buffer or standard, with the reason. */
@@ -243,8 +260,16 @@ export function checkExpiry(expiresOn: string | undefined, at: number) {
  * Captures the current step's point from the probe's live raw reading (mV or µS), at the
  * tank's temperature or a typed one. A reading that has not settled is captured only with a note.
  */
-export async function capturePoint(db: Db, user: Actor, runId: number, input: CaptureInput, now = Date.now()) {
+export async function capturePoint(db: Db, user: Actor, runId: number, input: CaptureInput, received = Date.now()) {
+  // A resend (the answer to the first send was lost with the connection) returns the saved point,
+  // whatever step the run has moved on to since.
+  if (input.clientKey) {
+    const saved = await pointByClientKey(db, runId, input.clientKey);
+    if (saved) return saved;
+  }
+  const now = received - (input.queuedMs ?? 0);
   const { run, probe, tank } = await inProgress(db, user.orgId, runId);
+  if (now < run.startedAt) throw unprocessable("This point was captured before the run started; capture it again.");
   const points = await runPoints(db, run.id);
   const previous = await calibrationInForce(db, probe.id, run.startedAt);
   const progress = progressOf(run, points, previous !== null);
@@ -280,10 +305,11 @@ export async function capturePoint(db: Db, user: Actor, runId: number, input: Ca
   const expected = asUnprocessable(() => (probe.kind === "ph" ? bufferPh(spec as BufferSpec, tempC) : ecStandardAt(spec as EcStandardSpec, tempC)));
   const raw = live.latest.raw;
 
-  return db.transaction(async (tx) => {
+  const saved = db.transaction(async (tx) => {
     const [point] = await tx
       .insert(calibrationPoints)
       .values({
+        clientKey: input.clientKey ?? null,
         runId: run.id,
         seq: points.length + 1,
         purpose: input.purpose,
@@ -304,6 +330,12 @@ export async function capturePoint(db: Db, user: Actor, runId: number, input: Ca
       await tx.update(calibrationRuns).set(asFoundError(probe, tank.ecAlphaPerC, previous, raw, tempC, expected, spec)).where(eq(calibrationRuns.id, run.id));
     }
     return point;
+  });
+  // Two sends of one key racing each other: the unique index keeps one; the loser returns it.
+  return saved.catch(async (err: unknown) => {
+    const again = input.clientKey ? await pointByClientKey(db, run.id, input.clientKey) : null;
+    if (again) return again;
+    throw err;
   });
 }
 

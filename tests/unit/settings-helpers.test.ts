@@ -40,8 +40,8 @@ describe("export file names", () => {
 describe("settings sections by role", () => {
   it("gives night managers their preferences only", () => {
     expect(sectionsFor("night_manager").map((s) => s.key)).toEqual(["preferences"]);
-    expect(sectionsFor("grower").map((s) => s.key)).toEqual(["tanks", "probes", "preferences"]);
-    expect(sectionsFor("owner")).toHaveLength(8);
+    expect(sectionsFor("grower").map((s) => s.key)).toEqual(["tanks", "probes", "labels", "preferences"]);
+    expect(sectionsFor("owner")).toHaveLength(9);
     expect(maySee("grower", "devices")).toBe(false);
   });
 });

@@ -12,6 +12,10 @@ const pointBody = z.object({
   note: z.string().trim().max(1000).optional(),
   /** The time of the reading shown when the grower clicked (ms epoch). */
   readingTs: z.number().int().positive().optional(),
+  /** Made up by the device; a point sent twice (after a dropped connection) is saved once. */
+  clientKey: z.uuid("The point's key must be a UUID").optional(),
+  /** How long the point waited on the device before being sent (at most a day). */
+  queuedMs: z.number().int().min(0).max(24 * 3_600_000, "A point kept offline for more than a day is too old; capture it again").optional(),
 });
 
 /** Captures the current step's point from the probe's live reading. */
