@@ -1,6 +1,7 @@
 "use client";
 import { useCallback, useState } from "react";
 import { CloudOff } from "lucide-react";
+import { format } from "date-fns";
 import { Button } from "@/components/ui/button";
 import { ApiRefusal } from "./api";
 import { usePendingPoints } from "./pending-points";
@@ -112,7 +113,7 @@ export function CaptureForm({
           <CloudOff className="mt-0.5 size-4 shrink-0" aria-hidden />
           <span>
             No connection. The reading shown is the last one received
-            {live?.latest ? ` (${new Date(live.latest.ts).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit", second: "2-digit" })})` : ""}; a capture is kept on this device and the server
+            {live?.latest ? ` (${format(live.latest.ts, "HH:mm:ss")})` : ""}; a capture is kept on this device and the server
             judges that reading when the connection returns.
           </span>
         </p>
@@ -121,7 +122,7 @@ export function CaptureForm({
         <p data-testid="pending-point" role="status" className="flex items-start gap-2 rounded-md border border-held/40 bg-held/5 p-3 text-sm font-medium text-held">
           <CloudOff className="mt-0.5 size-4 shrink-0" aria-hidden />
           <span>
-            Captured at {new Date(waiting.pressedAt).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit", second: "2-digit" })} and kept on this device. It is sent as soon as the
+            Captured at {format(waiting.pressedAt, "HH:mm:ss")} and kept on this device. It is sent as soon as the
             connection returns; leave this page open or come back to it.
           </span>
         </p>

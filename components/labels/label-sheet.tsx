@@ -50,11 +50,11 @@ export function LabelSheet({ labels, format }: { labels: LabelData[]; format: La
             >
               <div data-qr className="shrink-0 bg-white p-[1mm] [&>svg]:block [&>svg]:size-full" style={{ width: `${f.qrMm}mm`, height: `${f.qrMm}mm` }} dangerouslySetInnerHTML={{ __html: l.svg }} role="img" aria-label={`QR code: ${l.action.toLowerCase()}`} />
               <div className="min-w-0 leading-tight">
-                <p className="text-[7pt] font-semibold uppercase tracking-wide">{l.heading}</p>
-                <p className="truncate text-[10pt] font-bold">{l.name}</p>
-                <p className="truncate font-mono text-[8.5pt]">{l.serial}</p>
-                <p className="mt-[1mm] truncate text-[6.5pt]">{l.site}</p>
-                <p className="mt-[1mm] text-[6.5pt] font-semibold">{l.action} · Tidewell</p>
+                <p className="text-[7pt] font-semibold tracking-wide">{l.heading}</p>
+                <p className="line-clamp-2 text-[9.5pt] font-bold leading-[1.15]">{l.name}</p>
+                <p className="truncate font-mono text-[8pt]">{l.serial}</p>
+                <p className="mt-[0.8mm] truncate text-[6.5pt]">{l.site}</p>
+                <p className="mt-[0.8mm] text-[6.5pt] font-semibold">{l.action}</p>
               </div>
             </div>
           ))}

@@ -19,7 +19,7 @@ export function labelUrl(base: string, kind: LabelKind, id: number): string {
 
 /** The two printed formats: a 21-up A4 sheet (70 × 42.3 mm) and a 57 × 32 mm label roll. */
 export const LABEL_FORMATS = {
-  a4: { title: "A4 sheet, 21 labels (70 × 42.3 mm)", widthMm: 70, heightMm: 42.3, qrMm: 30 },
-  roll: { title: "Label roll, 57 × 32 mm", widthMm: 57, heightMm: 32, qrMm: 26 },
+  a4: { title: "A4 sheet, 21 labels (70 × 42.3 mm)", widthMm: 70, heightMm: 42.3, qrMm: 28 },
+  roll: { title: "Label roll, 57 × 32 mm", widthMm: 57, heightMm: 32, qrMm: 24 },
 } as const;
 export type LabelFormat = keyof typeof LABEL_FORMATS;

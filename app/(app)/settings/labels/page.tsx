@@ -4,7 +4,7 @@ import { headers } from "next/headers";
 import { eq } from "drizzle-orm";
 import QRCode from "qrcode";
 import { getDb } from "@/db/client";
-import { sites } from "@/db/schema";
+import { sites, tanks as tankTable } from "@/db/schema";
 import { tankOverview } from "@/db/queries/overview";
 import { Card, PageHeader } from "@/components/ui/card";
 import { LabelSheet, type LabelData } from "@/components/labels/label-sheet";
@@ -25,7 +25,7 @@ async function appBase(): Promise<string> {
 }
 
 async function qrSvg(url: string): Promise<string> {
-  return QRCode.toString(url, { type: "svg", errorCorrectionLevel: "M", margin: 0, color: { dark: "#000000", light: "#ffffff" } });
+  return QRCode.toString(url, { type: "svg", errorCorrectionLevel: "M", margin: 1, color: { dark: "#000000", light: "#ffffff" } });
 }
 
 export default async function LabelsPage({ searchParams }: { searchParams: Promise<{ site?: string; format?: string }> }) {
@@ -37,9 +37,11 @@ export default async function LabelsPage({ searchParams }: { searchParams: Promi
   const format: LabelFormat = sp.format === "roll" ? "roll" : "a4";
   const base = await appBase();
   const tanks = site ? await tankOverview(db, user.orgId, { siteId: site.id }) : [];
+  // A tank's label names its controller, the identifier written on the hardware beside it.
+  const controllers = site ? new Map((await db.select({ id: tankTable.id, controllerId: tankTable.controllerId }).from(tankTable).where(eq(tankTable.siteId, site.id))).map((t) => [t.id, t.controllerId])) : new Map<number, string | null>();
   const labels: LabelData[] = [];
   for (const t of tanks) {
-    labels.push({ key: `tank-${t.id}`, kind: "tank", id: t.id, heading: "Tank", name: t.name, serial: t.zoneName ?? t.crop, site: t.siteName, action: "Scan to open the tank", url: labelUrl(base, "tank", t.id), svg: await qrSvg(labelUrl(base, "tank", t.id)) });
+    labels.push({ key: `tank-${t.id}`, kind: "tank", id: t.id, heading: "Tank", name: t.name, serial: controllers.get(t.id) ?? t.zoneName ?? t.crop, site: t.siteName, action: "Scan to open the tank", url: labelUrl(base, "tank", t.id), svg: await qrSvg(labelUrl(base, "tank", t.id)) });
     for (const p of t.probes) {
       const url = labelUrl(base, "probe", p.id);
       labels.push({ key: `probe-${p.id}`, kind: "probe", id: p.id, heading: KIND[p.kind], name: t.name, serial: p.serial, site: t.siteName, action: p.kind === "temp" ? "Scan for the probe's record" : "Scan to calibrate", url, svg: await qrSvg(url) });

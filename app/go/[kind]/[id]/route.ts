@@ -9,9 +9,11 @@ import { probeInOrg } from "@/db/queries/calibration-scope";
 import { ApiError } from "@/app/_server/errors";
 import { labelParams, labelPath } from "@/lib/labels/links";
 
-export async function GET(req: Request, ctx: { params: Promise<{ kind: string; id: string }> }): Promise<Response> {
+export async function GET(_req: Request, ctx: { params: Promise<{ kind: string; id: string }> }): Promise<Response> {
   const parsed = labelParams.safeParse(await ctx.params);
-  const to = (path: string) => Response.redirect(new URL(path, req.url), 303);
+  // A relative Location: behind a proxy (or on 127.0.0.1 vs localhost) req.url's host is not the
+  // one the phone used, and a redirect to another host would lose the session cookie.
+  const to = (path: string) => new Response(null, { status: 303, headers: { location: path, "cache-control": "no-store" } });
   if (!parsed.success) return to("/");
   const { kind, id } = parsed.data;
   const user = await currentUser();

@@ -1,0 +1,16 @@
+import { chromium } from "playwright-core";
+const b = await chromium.launch({ executablePath: "/usr/bin/chromium", args: ["--headless", "--no-sandbox", "--disable-gpu"] });
+const c = await b.newContext({ viewport: { width: 390, height: 844 }, deviceScaleFactor: 2, isMobile: true, hasTouch: true });
+const p = await c.newPage();
+await p.goto("http://127.0.0.1:3911/sign-in");
+await p.getByLabel("E-mail").fill("grower@larkspur.example");
+await p.getByLabel("Password").fill("tidewell-demo");
+await p.getByRole("button", { name: "Sign in" }).click();
+await p.waitForURL("http://127.0.0.1:3911/");
+await p.goto("http://127.0.0.1:3911/tanks/7");
+await p.getByRole("button", { name: "Hold", exact: true }).first().click();
+await p.locator("dialog[open]").waitFor();
+console.log(await p.evaluate(() => [...document.querySelectorAll("dialog[open] button")].map((e) => `${e.textContent} ${e.getBoundingClientRect().height}`)));
+console.log(await p.evaluate(() => matchMedia("(pointer: coarse)").matches));
+await p.screenshot({ path: "/tmp/wt11/dialog.png" });
+await b.close();
