@@ -11,7 +11,7 @@ const PAGES = `${VERSION}-pages`;
 const OFFLINE_URL = "/offline";
 
 const KEPT_PAGES = [/^\/$/, /^\/tanks$/, /^\/tanks\/\d+$/, /^\/calibrations\/runs\/\d+$/];
-const KEPT_API = [/^\/api\/tanks$/, /^\/api\/tanks\/\d+$/, /^\/api\/tanks\/\d+\/series$/, /^\/api\/calibrations\/runs\/\d+$/, /^\/api\/probes\/\d+\/live$/, /^\/api\/me$/];
+const KEPT_API = [/^\/api\/tanks$/, /^\/api\/tanks\/\d+$/, /^\/api\/tanks\/\d+\/series$/, /^\/api\/calibrations\/runs\/\d+$/, /^\/api\/me$/];
 
 self.addEventListener("install", (event) => {
   event.waitUntil(
@@ -48,10 +48,12 @@ self.addEventListener("fetch", (event) => {
   const isRsc = request.headers.get("RSC") === "1" || url.searchParams.has("_rsc");
   if (request.mode === "navigate") {
     const keep = KEPT_PAGES.some((re) => re.test(url.pathname));
-    event.respondWith(networkFirst(request, keep, true));
+    event.respondWith(networkFirst(request, keep, true, request.url));
     return;
   }
-  if (!isRsc && KEPT_API.some((re) => re.test(url.pathname))) event.respondWith(networkFirst(request, true, false));
+  // JSON is kept per path, whatever its query (a chart asks for a moving time range): offline, the
+  // last answer for that path is shown.
+  if (!isRsc && KEPT_API.some((re) => re.test(url.pathname))) event.respondWith(networkFirst(request, true, false, url.origin + url.pathname));
 });
 
 async function cacheFirst(request) {
@@ -63,16 +65,16 @@ async function cacheFirst(request) {
 }
 
 /** The network's answer (kept when good); offline, the kept answer, or the offline page for a navigation. */
-async function networkFirst(request, keep, navigation) {
+async function networkFirst(request, keep, navigation, key) {
   try {
     const response = await fetch(request);
     if (keep && response.ok && !response.redirected && response.type === "basic") {
       const stamped = await stamp(response.clone());
-      (await caches.open(PAGES)).put(request.url, stamped);
+      (await caches.open(PAGES)).put(key, stamped);
     }
     return response;
   } catch (err) {
-    const cached = await caches.match(request.url, { cacheName: PAGES });
+    const cached = await caches.match(key, { cacheName: PAGES });
     if (cached) return cached;
     if (navigation) {
       const offline = await caches.match(OFFLINE_URL, { cacheName: STATIC });
