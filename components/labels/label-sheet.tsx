@@ -21,6 +21,8 @@ function printCss(format: LabelFormat): string {
   const page = format === "a4" ? "@page { size: A4 portrait; margin: 0; }" : `@page { size: ${f.widthMm}mm ${f.heightMm}mm; margin: 0; }`;
   return `${page}
 @media print {
+  [data-shell], nav, [data-print="hide"], [data-testid="offline-banner"] { display: none !important; }
+  main { padding: 0 !important; max-width: none !important; }
   body * { visibility: hidden !important; }
   #label-sheet, #label-sheet * { visibility: visible !important; }
   #label-sheet { position: absolute; inset: 0 auto auto 0; margin: 0; padding: 0; box-shadow: none; border: 0; background: white; }

@@ -54,7 +54,7 @@ export function OfflineBanner() {
     <div role="status" data-testid="offline-banner" className="sticky top-14 z-10 flex items-center gap-2 border-b border-warn/40 bg-[#fff4e0] px-4 py-2 text-sm font-medium text-warn lg:top-0">
       <CloudOff className="size-4 shrink-0" aria-hidden />
       <span>
-        Offline — last updated at <span className="num">{formatDateTime(at)}</span>. Values may be out of date; they update again when the connection returns.
+        Offline — last updated at <span className="num">{formatDateTime(at)}</span>. Values shown may be out of date.
       </span>
     </div>
   );
