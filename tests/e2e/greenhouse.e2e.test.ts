@@ -276,7 +276,9 @@ describe("in the greenhouse", () => {
 
     await capture("B7-2612-01", false);
     await page.getByRole("heading", { name: /Buffer 2 of 2/ }).waitFor();
+    await page.evaluate(() => window.scrollTo(0, 0));
     await phoneShot(page, "phone-calibration-run");
+    await shot(page, "phone-calibration-run-full");
     expect(await smallTargets(page, "[data-current-step]")).toEqual([]);
 
     // Another device (the owner's) follows the same run at the same step.
