@@ -210,6 +210,33 @@ describe("guided pH run", () => {
     await abandonRun(db, user, runId, at);
   });
 
+  it("judges a point kept offline as of when capture was pressed, and saves a resent key once", async () => {
+    const at = T0 + 8.5 * DAY_MS;
+    const { runId } = await startRun(db, user, { tankId, probeId: ph }, at);
+    await confirmStep(db, user, runId, "skip-as-found", at);
+    await confirmStep(db, user, runId, "clean", at);
+    const pressed = at + 60 * SEC;
+    await feedTemperature(pressed, 20);
+    await feed(ph, pressed, 35, () => electrodeMv(bufferPh("tech-7.00", 20), 20, 98, 2));
+    const key = "6f1c2b9e-8a47-4c1d-9e3f-2b7a5d0c4e81";
+    const body = { purpose: "point" as const, lot: "B7-OFF", expiresOn: "2027-09-30", readingTs: pressed, clientKey: key };
+    // Ten minutes offline: judged now, the reading would be stale; judged when pressed, it is live and stable.
+    const stale = await refusal(capturePoint(db, user, runId, { ...body, clientKey: undefined }, pressed + 10 * 60 * SEC));
+    expect(stale.message).toMatch(/No reading from the probe/);
+    const point = await capturePoint(db, user, runId, { ...body, queuedMs: 10 * 60 * SEC }, pressed + 10 * 60 * SEC);
+    expect(point.capturedAt).toBe(pressed);
+    expect(point.stable).toBe(true);
+    // The answer was lost and the phone sends it again: the same point, nothing new.
+    const again = await capturePoint(db, user, runId, { ...body, queuedMs: 12 * 60 * SEC }, pressed + 12 * 60 * SEC);
+    expect(again.id).toBe(point.id);
+    const rows = await db.select().from(schema.calibrationPoints).where(eq(schema.calibrationPoints.runId, runId));
+    expect(rows).toHaveLength(1);
+    // A point claimed to be pressed before the run started is refused.
+    const early = await refusal(capturePoint(db, user, runId, { ...body, clientKey: "0b8e6f7a-3c2d-4e5f-8a9b-1c2d3e4f5a6b", queuedMs: 2 * 60 * SEC }, pressed));
+    expect(early.status).toBe(422);
+    await abandonRun(db, user, runId, pressed);
+  });
+
   it("marks the probe for replacement after a second rejection in a row", async () => {
     const at = T0 + 10 * DAY_MS;
     const first = await phRun(at, { slopePct: 86, offsetMv: -5 }, { asFound: false });
