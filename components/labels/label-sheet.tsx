@@ -22,6 +22,7 @@ function printCss(format: LabelFormat): string {
   return `${page}
 @media print {
   [data-shell], nav, [data-print="hide"], [data-testid="offline-banner"] { display: none !important; }
+  html, body { background: white !important; }
   main { padding: 0 !important; max-width: none !important; }
   body * { visibility: hidden !important; }
   #label-sheet, #label-sheet * { visibility: visible !important; }
