@@ -9,6 +9,7 @@ import {
   CalibrationInputError,
   EC_STANDARD_IDS,
   bufferPh,
+  bufferTableProblem,
   ecFromConductance,
   ecStandardAt,
   fitEc,
@@ -53,14 +54,16 @@ function checkStandards(kind: ProbeRow["kind"], standards: readonly string[]) {
   if (standards.length < 1 || standards.length > max) {
     throw unprocessable(kind === "ph" ? "A pH run takes 1 to 3 buffers." : "An EC run takes one conductivity standard.");
   }
-  for (const s of standards) {
+  standards.forEach((s, i) => {
     const spec = parseStandardText(s);
     const known = kind === "ph" ? (BUFFER_IDS as readonly string[]) : (EC_STANDARD_IDS as readonly string[]);
     if (typeof spec === "string" && !known.includes(spec)) throw unprocessable(`"${s}" is not a ${kind === "ph" ? "pH buffer" : "conductivity standard"} Tidewell knows.`);
     if (typeof spec === "object") {
+      const tableProblem = kind === "ph" ? bufferTableProblem(spec) : null;
+      if (tableProblem) throw unprocessable(tableProblem, { [`standards.${i}`]: tableProblem });
       asUnprocessable(() => (kind === "ph" ? bufferPh(spec as BufferSpec, (spec as { points: [number, number][] }).points?.[0]?.[0] ?? 25) : ecStandardAt(spec as EcStandardSpec, 25)));
     }
-  }
+  });
   if (new Set(standards).size !== standards.length) throw unprocessable("Each buffer can be used once in a run; choose different buffers, for example pH 7 then pH 4.");
 }
 

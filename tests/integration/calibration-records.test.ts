@@ -294,6 +294,20 @@ describe("manual calibration entries", () => {
     expect(err.message).toMatch(/expired/);
   });
 
+  it("refuses a certificate table that is not plausible, naming the row and the field", async () => {
+    const backwards = JSON.stringify({ points: [[25, 7.0], [20, 7.02]] });
+    const manual = await refusal(
+      createManualCalibration(db, user, { probeId: ph, performedAt: T0 + 15 * DAY_MS, slopePct: 99, offsetMv: 0, standards: [{ standard: backwards, lot: "C1", expiresOn: "2027-06-01", tempC: 22 }] }, T0 + 15 * DAY_MS),
+    );
+    expect(manual.status).toBe(422);
+    expect(manual.message).toBe("Row 2 of the buffer table: Temperatures must go up row by row: 20 °C comes after 25 °C");
+    expect(manual.fields).toEqual({ "standards.0.standard": manual.message });
+    const guided = await refusal(startRun(db, user, { tankId, probeId: ph, standards: ["tech-7.00", JSON.stringify({ points: [[20, 4.0], [25, 41]] })] }, T0 + 15 * DAY_MS));
+    expect(guided.status).toBe(422);
+    expect(guided.fields).toEqual({ "standards.1": "Row 2 of the buffer table: Between pH 0 and 14; check the certificate" });
+    expect(await db.select().from(schema.calibrationRuns).where(eq(schema.calibrationRuns.status, "in_progress"))).toEqual([]);
+  });
+
   it("rejects a cell constant more than 10 % from nominal", async () => {
     const { run } = await createManualCalibration(db, user, { probeId: ec, performedAt: T0 + 16 * DAY_MS, cellConstant: 1.15, standards: [{ standard: "kcl-0.01M", lot: "K", expiresOn: "2027-04-30" }] }, T0 + 16 * DAY_MS);
     expect(run.status).toBe("rejected"); // ±10 % of nominal, common practice (DOMAIN.md section 3)
