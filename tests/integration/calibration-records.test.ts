@@ -2,7 +2,7 @@
 // SQLite file. Readings are written with explicit timestamps (the probe's raw mV or µS as a
 // device would publish them), so nothing waits on the wall clock.
 import { beforeAll, beforeEach, describe, expect, it } from "vitest";
-import { and, eq, isNull, sql } from "drizzle-orm";
+import { and, eq, inArray, isNull, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import * as schema from "@/db/schema";
 import { abandonRun, capturePoint, completeRun, confirmStep, getRunView, startRun } from "@/db/queries/calibration-runs";
@@ -232,6 +232,32 @@ describe("guided pH run", () => {
     expect((await completeRun(db, user, third.runId, {}, third.t)).run.status).toBe("accepted");
     const [after] = await db.select().from(schema.probes).where(eq(schema.probes.id, ph));
     expect(after.status).toBe("active");
+  });
+
+  it("takes a typed effective time for a run entered late, and corrects the readings stored since", async () => {
+    const at = T0 + 13 * DAY_MS;
+    for (const ts of [at - 60 * 60 * SEC, at - 30 * 60 * SEC]) {
+      await feedTemperature(ts, 20);
+      await db.insert(schema.readings).values({ probeId: ph, ts, raw: 12, value: 6.5, quality: "ok" });
+    }
+    const { runId, t } = await phRun(at, { slopePct: 97, offsetMv: 2 }, { asFound: false });
+    const future = await refusal(completeRun(db, user, runId, { effectiveAt: t + 60 * SEC }, t));
+    expect(future.status).toBe(422);
+    expect(future.fields).toMatchObject({ effectiveAt: "Not in the future: enter when the run was done" });
+    const beforePrevious = await refusal(completeRun(db, user, runId, { effectiveAt: T0 + 10 * DAY_MS }, t));
+    expect(beforePrevious.status).toBe(422);
+    expect(beforePrevious.fields.effectiveAt).toMatch(/^After the previous accepted calibration \(/);
+
+    const effectiveAt = at - 45 * 60 * SEC;
+    const saved = await completeRun(db, user, runId, { effectiveAt }, t);
+    expect(saved.run).toMatchObject({ status: "accepted", effectiveAt, completedAt: t });
+    expect(saved.recomputed?.updated).toBeGreaterThan(0);
+    const rows = await db.select().from(schema.readings).where(and(eq(schema.readings.probeId, ph), inArray(schema.readings.ts, [at - 60 * 60 * SEC, at - 30 * 60 * SEC]))).orderBy(schema.readings.ts);
+    expect(rows[0].calibrationRunId).not.toBe(runId); // before the effective time: the calibration then in force
+    expect(rows[1].calibrationRunId).toBe(runId);
+    expect(rows[1].value).toBeCloseTo(phFromMv(12, 20, { slopePct: saved.run.slopePct!, offsetMv: saved.run.offsetMv! }), 9);
+    const [entry] = await db.select().from(schema.auditLog).where(and(eq(schema.auditLog.entity, "calibration_run"), eq(schema.auditLog.entityId, runId), eq(schema.auditLog.action, "calibration.save")));
+    expect(entry.detail).toMatchObject({ verdict: "accepted", effectiveAt: new Date(effectiveAt).toISOString() });
   });
 
   it("keeps other organisations out", async () => {
