@@ -246,7 +246,7 @@ describe("guided pH run", () => {
     expect(future.fields).toMatchObject({ effectiveAt: "Not in the future: enter when the run was done" });
     const beforePrevious = await refusal(completeRun(db, user, runId, { effectiveAt: T0 + 10 * DAY_MS }, t));
     expect(beforePrevious.status).toBe(422);
-    expect(beforePrevious.fields.effectiveAt).toMatch(/^After the previous accepted calibration \(/);
+    expect(beforePrevious.fields?.effectiveAt).toMatch(/^After the previous accepted calibration \(/);
 
     const effectiveAt = at - 45 * 60 * SEC;
     const saved = await completeRun(db, user, runId, { effectiveAt }, t);
