@@ -10,7 +10,7 @@ import { calibrationInForce } from "@/db/queries/calibration-scope";
 import { createManualCalibration } from "@/db/queries/calibration-manual";
 import { probeRecord } from "@/db/queries/calibration-history";
 import { calibrationCompliance } from "@/db/queries/calibration-compliance";
-import { addSpotCheck, importSpotChecksCsv, listSpotChecks } from "@/db/queries/spot-checks";
+import { addSpotCheck, deleteSpotCheck, editSpotCheck, importSpotChecksCsv, listSpotChecks } from "@/db/queries/spot-checks";
 import { ApiError } from "@/app/_server/errors";
 import { DAY_MS, bufferPh, ecStandardAt, nernstSlopeMv, phFromMv } from "@/lib/calibration";
 import { useTestDatabase } from "./helpers/use-test-database";
@@ -384,6 +384,25 @@ describe("spot checks", () => {
     const result = await importSpotChecksCsv(db, user, good, at);
     expect(result).toEqual({ imported: 2, pastTolerance: 1 }); // 1050 vs 1000 is within 100 µS/cm; 1250 is not
     expect((await listSpotChecks(db, user.orgId, ec)).rows.length).toBe(before + 2);
+  });
+
+  it("edits a spot check (compared again) and deletes one, each with an audit entry; other farms get 404", async () => {
+    const added = await addSpotCheck(db, user, { probeId: ph, takenAt: at, meterValue: 6.3, note: "typo" }, at);
+    expect(added.spotCheck.pastTolerance).toBe(true);
+    const edited = await editSpotCheck(db, user, added.spotCheck.id, { takenAt: at + 70 * SEC, meterValue: 6.35, note: "meter 2" }, at + DAY_MS);
+    expect(edited.spotCheck).toMatchObject({ id: added.spotCheck.id, tidewellValue: 6.4, pastTolerance: false, note: "meter 2" });
+    expect(edited.spotCheck.difference).toBeCloseTo(-0.05, 9);
+    expect((await refusal(editSpotCheck(db, user, added.spotCheck.id, { takenAt: at, meterValue: 15 }, at))).fields).toEqual({ meterValue: "A pH reading must be between 0 and 14" });
+    expect((await refusal(editSpotCheck(db, otherOrg, added.spotCheck.id, { takenAt: at, meterValue: 6 }, at))).status).toBe(404);
+    expect((await refusal(deleteSpotCheck(db, otherOrg, added.spotCheck.id, at))).status).toBe(404);
+
+    await deleteSpotCheck(db, user, added.spotCheck.id, at + 2 * DAY_MS);
+    expect((await listSpotChecks(db, user.orgId, ph)).rows.map((r) => r.id)).not.toContain(added.spotCheck.id);
+    expect((await refusal(deleteSpotCheck(db, user, added.spotCheck.id, at))).status).toBe(404);
+    const trail = await db.select().from(schema.auditLog).where(and(eq(schema.auditLog.entity, "spot_check"), eq(schema.auditLog.entityId, added.spotCheck.id))).orderBy(schema.auditLog.id);
+    expect(trail.map((a) => [a.action, a.userId])).toEqual([["spot-check.add", user.id], ["spot-check.edit", user.id], ["spot-check.delete", user.id]]);
+    expect(trail[1].detail).toMatchObject({ before: { meterValue: 6.3, note: "typo" }, after: { meterValue: 6.35, note: "meter 2" } });
+    expect(trail[2].detail).toMatchObject({ deleted: { meterValue: 6.35 } });
   });
 
   it("refuses serials of another organisation as unknown", async () => {
