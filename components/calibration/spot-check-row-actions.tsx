@@ -99,7 +99,7 @@ export function SpotCheckRowActions({ row, kind, ecUnit }: { row: SpotCheckRowJs
             Note
             <input className={FIELD_CLASS} name="note" value={note} onChange={(e) => setNote(e.target.value)} />
           </label>
-          {error ? (
+          {error && !error.fields.takenAt && !error.fields.meterValue ? (
             <p role="alert" className="text-sm font-medium text-bad">
               {error.message}
             </p>

@@ -9,13 +9,21 @@ import "uplot/dist/uPlot.min.css";
 import { stackedTops, type CountSeries } from "@/lib/alerts/stats";
 import { cn } from "@/components/ui/cn";
 
-const FILLS = ["#136659", "#a45d00", "#4b5bb3", "#7b827f", "#1f9e89", "#b42318"];
+// Calm shades of the palette; red is kept for "bad" elsewhere, so no series uses it. The summed
+// "other" series is always grey.
+const FILLS = ["#136659", "#a45d00", "#4b5bb3", "#1f9e89", "#6b4c9a", "#8a6d3b"];
+const OTHER_FILL = "#9aa19e";
+const isOther = (key: string) => key === "other" || key === "other tanks";
 const DAY_S = 86_400;
 
-/** A fill for series i: solid for even series, diagonal hatching on a light tint for odd ones. */
-function fillFor(ctx: CanvasRenderingContext2D, i: number): string | CanvasPattern {
-  const colour = FILLS[i % FILLS.length];
-  if (i % 2 === 0) return colour;
+/** Shade and texture of series i: solid for even series, diagonal hatching for odd ones. */
+function look(data: CountSeries, i: number): { colour: string; hatched: boolean } {
+  return { colour: isOther(data.series[i].key) ? OTHER_FILL : FILLS[i % FILLS.length], hatched: i % 2 === 1 };
+}
+
+/** A canvas fill for a series' bars: its shade, or diagonal hatching on a light tint of it. */
+function fillFor(ctx: CanvasRenderingContext2D, { colour, hatched }: { colour: string; hatched: boolean }): string | CanvasPattern {
+  if (!hatched) return colour;
   const tile = document.createElement("canvas");
   const ratio = Math.max(1, Math.round(window.devicePixelRatio || 1));
   tile.width = tile.height = 8 * ratio;
@@ -40,12 +48,11 @@ function fillFor(ctx: CanvasRenderingContext2D, i: number): string | CanvasPatte
   return ctx.createPattern(tile, "repeat") ?? colour;
 }
 
-/** The legend's swatch for series i, drawn like its bars. */
-function Swatch({ i }: { i: number }) {
-  const colour = FILLS[i % FILLS.length];
+/** The legend's swatch for a series, drawn like its bars. */
+function Swatch({ colour, hatched }: { colour: string; hatched: boolean }) {
   return (
     <svg viewBox="0 0 12 12" className="size-3.5 shrink-0" aria-hidden>
-      {i % 2 === 0 ? (
+      {!hatched ? (
         <rect width="12" height="12" rx="2" fill={colour} />
       ) : (
         <>
@@ -85,8 +92,8 @@ function StackedBars({ data, names, height, onHover }: { data: CountSeries; name
         {},
         ...order.map((i) => ({
           label: names[data.series[i].key] ?? data.series[i].key,
-          fill: (u: uPlot) => fillFor(u.ctx, i),
-          stroke: FILLS[i % FILLS.length],
+          fill: (u: uPlot) => fillFor(u.ctx, look(data, i)),
+          stroke: look(data, i).colour,
           width: 1,
           paths: bars,
           points: { show: false },
@@ -170,7 +177,7 @@ export function IncidentTrends({ byCause, byTank, causeNames, height = 220 }: { 
           <ul className="mt-3 flex flex-wrap gap-x-4 gap-y-1.5 text-sm" data-trend-legend>
             {data.series.map((s, i) => (
               <li key={s.key} className={cn("flex items-center gap-1.5", hover !== null && s.counts[hover] === 0 && "opacity-40")}>
-                <Swatch i={i} />
+                <Swatch {...look(data, i)} />
                 <span>{name(s.key)}</span>
                 <span className="num text-ink-soft">{hover === null ? s.total : s.counts[hover]}</span>
               </li>

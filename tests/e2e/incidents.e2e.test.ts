@@ -80,7 +80,8 @@ describe("incidents", () => {
     await page.locator("[data-incident-trends=tank] canvas").first().waitFor();
     const byTank = page.locator("[data-incident-trends=tank]");
     const canvasBox = (await byTank.locator("canvas").first().boundingBox())!;
-    await page.mouse.move(canvasBox.x + canvasBox.width - 20, canvasBox.y + canvasBox.height / 2);
+    // Several steps: uPlot places its cursor from the second mouse move over the plot on.
+    await page.mouse.move(canvasBox.x + canvasBox.width - 20, canvasBox.y + canvasBox.height / 2, { steps: 8 });
     await expect.poll(() => byTank.locator("[data-trend-readout]").textContent()).not.toMatch(/Point at a day/);
     await shot(page, "incident-history-by-tank");
     await page.getByRole("button", { name: "By cause" }).click();
