@@ -138,7 +138,7 @@ export function ManualEntryForm({ probes, now }: { probes: ProbeOption[]; now: n
                   {label}
                 </option>
               ))}
-              {probe?.kind === "ph" ? <option value={CERTIFICATE_TABLE}>Another buffer: enter its certificate table</option> : null}
+              {probe?.kind === "ph" ? <option value={CERTIFICATE_TABLE}>Own table from a certificate</option> : null}
             </select>
             <input aria-label="Lot" placeholder="Lot" className={field} value={r.lot} onChange={(e) => setRows(rows.map((x, j) => (j === i ? { ...x, lot: e.target.value } : x)))} />
             <input aria-label="Expiry date" type="date" className={field} value={r.expiresOn} onChange={(e) => setRows(rows.map((x, j) => (j === i ? { ...x, expiresOn: e.target.value } : x)))} />

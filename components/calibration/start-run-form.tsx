@@ -98,7 +98,7 @@ export function StartRunForm({ tankId, probes, initialProbeId, maxHoldMinutes }:
                       {BUFFERS[id].label}
                     </option>
                   ))}
-                  <option value={CERTIFICATE_TABLE}>Another buffer: enter its certificate table</option>
+                  <option value={CERTIFICATE_TABLE}>Own table from a certificate</option>
                 </select>
               </label>
               {b === CERTIFICATE_TABLE ? (

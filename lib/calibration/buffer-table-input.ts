@@ -86,9 +86,13 @@ export function readBufferTableRows(rows: readonly BufferTableRow[]): BufferTabl
   const parsed = bufferTableRowsSchema.safeParse(rows);
   if (!parsed.success) {
     const fields = fieldsOf(parsed.error);
-    const [key, message] = Object.entries(fields)[0];
-    const row = /^(\d+)\./.exec(key);
-    return { ok: false, fields, message: row ? `Row ${Number(row[1]) + 1} of the buffer table: ${message}` : message };
+    // The message names the first problem in reading order (row by row), and how many more there are.
+    const rowOf = (key: string) => Number(/^(\d+)\./.exec(key)?.[1] ?? -1);
+    const keys = Object.keys(fields).sort((a, b) => rowOf(a) - rowOf(b) || (a.endsWith("tempC") ? -1 : 1));
+    const first = keys[0];
+    const more = keys.length > 1 ? ` (and ${keys.length - 1} more to fix)` : "";
+    const where = rowOf(first) >= 0 ? `Row ${rowOf(first) + 1} of the buffer table: ` : "";
+    return { ok: false, fields, message: `${where}${fields[first]}${more}` };
   }
   const table: BufferTable = { points: parsed.data.map((r) => [r.tempC, r.ph] as const) };
   return { ok: true, table, text: JSON.stringify(table) };

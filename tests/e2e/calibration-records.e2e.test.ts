@@ -79,7 +79,7 @@ describe("calibration records entered by hand", () => {
     const runsBefore = Number((await db.execute("SELECT count(*) AS n FROM calibration_runs")).rows[0].n);
     await page.goto(`${baseURL}/calibrations/new?tank=${Number(tank.rows[0].id)}`);
     await page.getByRole("radio", { name: /pH/ }).check();
-    await page.getByRole("combobox", { name: "Second buffer" }).selectOption({ label: "Another buffer: enter its certificate table" });
+    await page.getByRole("combobox", { name: "Second buffer" }).selectOption({ label: "Own table from a certificate" });
     const runTable = page.locator('[data-buffer-table="Second buffer"]');
     await runTable.getByLabel("Row 1 pH").fill("4.00");
     await page.getByRole("button", { name: "Start the calibration run" }).click();
@@ -93,7 +93,7 @@ describe("calibration records entered by hand", () => {
     await page.getByLabel("Probe").selectOption(String(probe.id));
     await page.locator("input[name=slopePct]").fill("98.1");
     await page.locator("input[name=offsetMv]").fill("-2.4");
-    await page.getByLabel("Buffer or standard").selectOption({ label: "Another buffer: enter its certificate table" });
+    await page.getByLabel("Buffer or standard").selectOption({ label: "Own table from a certificate" });
     const table = page.locator('[data-buffer-table="Buffer 1"]');
     for (const [i, t, ph] of [[1, "15", "7.04"], [2, "20", "7.02"], [3, "20", "7.00"], [4, "30", "69.9"]] as const) {
       await table.getByLabel(`Row ${i} temperature °C`).fill(t);

@@ -47,7 +47,9 @@ describe("buffer table typed on screen", () => {
       "2.tempC": "Between 0 and 60 °C",
       "3.ph": "Between pH 0 and 14; check the certificate",
     });
-    expect(r.message).toBe("Row 1 of the buffer table: Enter the temperature in °C");
+    expect(r.fields["3.tempC"]).toBe("Between 0 and 60 °C");
+    // The message names the first problem in reading order, and how many more there are.
+    expect(r.message).toBe("Row 1 of the buffer table: Enter the temperature in °C (and 4 more to fix)");
   });
 
   it("wants temperatures strictly increasing, row by row", () => {
@@ -56,6 +58,7 @@ describe("buffer table typed on screen", () => {
     const down = readBufferTableRows([{ tempC: "25", ph: "7.00" }, { tempC: "20", ph: "7.02" }, { tempC: "30", ph: "6.99" }]);
     expect(down).toMatchObject({ ok: false, fields: { "1.tempC": "Temperatures must go up row by row: 20 °C comes after 25 °C" } });
     expect(Object.keys(down.ok ? {} : down.fields)).toEqual(["1.tempC"]);
+    expect(down.ok ? "" : down.message).toBe("Row 2 of the buffer table: Temperatures must go up row by row: 20 °C comes after 25 °C");
   });
 });
 
