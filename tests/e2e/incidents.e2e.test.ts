@@ -80,8 +80,9 @@ describe("incidents", () => {
     await page.locator("[data-incident-trends=tank] canvas").first().waitFor();
     const byTank = page.locator("[data-incident-trends=tank]");
     const canvasBox = (await byTank.locator("canvas").first().boundingBox())!;
-    // Several steps: uPlot places its cursor from the second mouse move over the plot on.
-    await page.mouse.move(canvasBox.x + canvasBox.width - 20, canvasBox.y + canvasBox.height / 2, { steps: 8 });
+    // Into the plot, then along it: uPlot places its cursor from the second mouse move over the plot on.
+    await page.mouse.move(canvasBox.x + canvasBox.width - 20, canvasBox.y + canvasBox.height / 2);
+    await page.mouse.move(canvasBox.x + canvasBox.width - 30, canvasBox.y + canvasBox.height / 2, { steps: 4 });
     await expect.poll(() => byTank.locator("[data-trend-readout]").textContent()).not.toMatch(/Point at a day/);
     await shot(page, "incident-history-by-tank");
     await page.getByRole("button", { name: "By cause" }).click();
