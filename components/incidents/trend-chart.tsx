@@ -79,7 +79,7 @@ function StackedBars({ data, names, height, onHover }: { data: CountSeries; name
       width: el.clientWidth,
       height,
       legend: { show: false },
-      cursor: { points: { show: false }, drag: { x: false, y: false } },
+      cursor: { y: false, points: { show: false }, drag: { x: false, y: false } },
       scales: {
         x: { time: true, range: () => [xs[0] - DAY_S / 2, xs[xs.length - 1] + DAY_S / 2] },
         y: { range: () => [0, Math.max(2, Math.ceil(maxTotal * 1.15))] },
