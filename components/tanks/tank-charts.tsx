@@ -85,7 +85,7 @@ export function TankCharts({ tankId, ecUnit, renderedAt }: { tankId: number; ecU
         </div>
         <p className="num text-xs text-ink-faint" data-testid="series-meta">
           {data
-            ? `${data.source === "rollups" ? "per-minute summaries" : "raw readings"} · one point per ${formatBucket(data.bucketMs)}${query.isFetching ? " · updating…" : ""}`
+            ? `${data.source === "hourly-rollups" ? "hourly summaries" : data.source === "rollups" ? "per-minute summaries" : "raw readings"} · one point per ${formatBucket(data.bucketMs)}${query.isFetching ? " · updating…" : ""}`
             : query.isError
               ? ""
               : "loading…"}
