@@ -15,6 +15,7 @@ const credentials = (file: string) => JSON.parse(fs.readFileSync(file, "utf8")) 
 
 export const ingestSection: BenchSection = {
   name: "ingest",
+  metrics: { ingest_readings_per_s: "readings/s", sqlite_insert_ceiling_per_s: "rows/s", ingest_vs_ceiling_ratio: "ratio", ingest_rss_mb: "MB" },
   async *run({ seconds, log }): AsyncIterable<Metric> {
     const db = await createSeededDatabase({ label: "bench" });
     const client = openDb(db);

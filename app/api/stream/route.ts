@@ -36,6 +36,23 @@ const EVENT_NAME: Record<OrgEvent["type"], string> = {
   "calibration.saved": "calibration",
 };
 
+/**
+ * A live batch encoded once for every client that streams it (a thousand open walls would
+ * otherwise each map and stringify the same readings): the event id is its newest timestamp.
+ */
+const encoded = new WeakMap<LiveMessage, { id: number; chunk: Uint8Array } | null>();
+function encodedReadings(m: Extract<LiveMessage, { kind: "readings" }>) {
+  let hit = encoded.get(m);
+  if (hit === undefined) {
+    const readings: StreamReading[] = m.readings.map((r) => ({ probeId: r.probeId, kind: r.kind, ts: r.ts, value: r.value, quality: r.quality }));
+    let id = 0;
+    for (const r of readings) if (r.ts > id) id = r.ts;
+    hit = readings.length ? { id, chunk: sseEvent("readings", { tankId: m.tankId, readings }, id) } : null;
+    encoded.set(m, hit);
+  }
+  return hit;
+}
+
 function lastEventId(req: Request): number | undefined {
   const raw = req.headers.get("last-event-id");
   if (!raw || !/^\d{1,16}$/.test(raw.trim())) return undefined;
@@ -84,10 +101,17 @@ export const GET = guarded({ roles: ALL_ROLES, query: streamQuery }, async ({ us
           void backfill(lastId - RESUME_SLACK_MS);
         } else if (m.kind === "readings") {
           if (m.orgId !== scope.orgId || !tankInScope(scope, m.tankId)) return;
-          sendReadings(
-            m.tankId,
-            m.readings.map((r) => ({ probeId: r.probeId, kind: r.kind, ts: r.ts, value: r.value, quality: r.quality })),
-          );
+          const shared = encodedReadings(m);
+          // Usually the batch is newer than what this client has: every client gets the same bytes.
+          if (shared && shared.id >= lastId) {
+            lastId = shared.id;
+            send(shared.chunk);
+          } else {
+            sendReadings(
+              m.tankId,
+              m.readings.map((r) => ({ probeId: r.probeId, kind: r.kind, ts: r.ts, value: r.value, quality: r.quality })),
+            );
+          }
         } else if (m.event.orgId === scope.orgId && tankInScope(scope, m.event.tankId)) {
           send(sseEvent(EVENT_NAME[m.event.type], m.event));
         }
