@@ -1,5 +1,6 @@
 // The ingest's broker connection: a persistent session (fixed client id, clean: false) with
-// QoS 1 raw subscriptions whose PUBACKs are sent by us, after the rows are committed.
+// QoS 1 raw subscriptions whose PUBACKs are sent by us, after the rows are committed. Several
+// workers can share the raw subscription (MQTT 5 `$share/{group}/…`, each its own session).
 //
 // mqtt.js acknowledges a QoS 1 message as soon as `handleMessage` calls back, and it does not
 // read the next packet until then; `customHandleAcks` only exists for MQTT 5, which aedes does
@@ -34,6 +35,11 @@ export interface IngestSessionOptions {
   onRaw: RawHandler;
   onOther: (topic: string, payload: Buffer) => void;
   onConnect?: (sessionPresent: boolean) => void;
+  /**
+   * MQTT 5 (for a shared subscription): the session outlives a disconnect by this long, so the
+   * broker keeps this worker's unacknowledged and queued messages for it until it is back.
+   */
+  mqtt5SessionExpirySeconds?: number;
   log: Logger;
 }
 
@@ -55,6 +61,7 @@ export function openIngestSession(o: IngestSessionOptions): IngestSession {
     connectTimeout: 10_000,
     keepalive: 30,
     resubscribe: false, // we subscribe on every connect ourselves
+    ...(o.mqtt5SessionExpirySeconds ? { protocolVersion: 5 as const, properties: { sessionExpiryInterval: o.mqtt5SessionExpirySeconds } } : {}),
   };
   const client = mqtt.connect(o.url, options);
   const internal = client as unknown as { _sendPacket?: SendPacket };
