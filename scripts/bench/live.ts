@@ -11,7 +11,7 @@ import path from "node:path";
 import mqtt, { type MqttClient } from "mqtt";
 import { createSeededDatabase } from "../../tests/integration/helpers/database";
 import { openDb, startBroker, startIngest } from "../../tests/integration/helpers/tidewell";
-import { REPO_ROOT, spawnProcess, stopAll } from "../../tests/integration/helpers/processes";
+import { REPO_ROOT, spawnProcess, spawnTsx, stopAll } from "../../tests/integration/helpers/processes";
 import { freePort } from "../../tests/integration/helpers/ports";
 import { sleep } from "../../tests/integration/helpers/wait";
 import { sessionFor, type HttpSession } from "../../tests/e2e/session";
@@ -133,7 +133,7 @@ async function pacedPublisher(url: string, targets: { controllerId: string; user
  * One new probe on a new tank: 30 days of 1 Hz readings with their minute and hourly rollups,
  * and before them 335 days of rollups alone (what retention leaves of older raw readings).
  */
-async function addYearOfHistory(client: ReturnType<typeof openDb>, now: number): Promise<number> {
+export async function addYearOfHistory(client: ReturnType<typeof openDb>, now: number): Promise<number> {
   const site = Number((await client.execute("SELECT id FROM sites ORDER BY id LIMIT 1")).rows[0].id);
   const tank = await client.execute({
     sql: "INSERT INTO tanks (site_id, name, crop, ph_min, ph_max, ec_min_us, ec_max_us) VALUES (?, 'Bench tank', 'leafy greens', 5.5, 6.5, 800, 1200) RETURNING id",
@@ -222,7 +222,8 @@ export async function* benchLive(opts: SectionOptions): AsyncIterable<Metric> {
     const credentials = JSON.parse(fs.readFileSync(db.credentialsFile, "utf8")) as { controllerId: string; username: string; password: string }[];
     const targets = credentials.map((c) => ({ ...c, serials: serials.get(c.controllerId) ?? [] }));
 
-    // Hold many clients while devices publish 1,000 readings/s; one of them times every reading.
+    // Hold many clients (in a process of their own) while devices publish 1,000 readings/s;
+    // one more client, here, times every reading.
     const rssBefore = treeRssMb(web.pid);
     log(`opening ${clientCount} SSE clients (web RSS ${rssBefore.toFixed(0)} MB)`);
     let measuring = false;
@@ -233,10 +234,11 @@ export async function* benchLive(opts: SectionOptions): AsyncIterable<Metric> {
       for (const r of readings) latencies.push(at - r.ts);
     });
     streams.push(watcher);
-    for (let i = 1; i < clientCount; i += 50) {
-      streams.push(...(await Promise.all(Array.from({ length: Math.min(50, clientCount - i) }, () => openStream(session)))));
-    }
-    const held = streams.slice(-clientCount) as Awaited<ReturnType<typeof openStream>>[];
+    const heardWithinMs = Math.min(20_000, sseHoldSeconds * 500);
+    const holders = spawnTsx("sse-holders", "scripts/bench/sse-holders.ts", [baseURL, String(clientCount - 1), String(heardWithinMs)], {
+      env: { SSE_COOKIE: session.cookieHeader() },
+    });
+    await holders.waitForLine(/^open \d+$/, 120_000);
     const load = await pacedPublisher(broker.url, targets, 1000);
     await sleep(3000);
     measuring = true;
@@ -247,9 +249,9 @@ export async function* benchLive(opts: SectionOptions): AsyncIterable<Metric> {
       rssPeak = Math.max(rssPeak, treeRssMb(web.pid));
     }
     measuring = false;
-    const heardSince = Date.now() - Math.min(20_000, sseHoldSeconds * 500);
-    const alive = held.filter((s) => s.open && s.lastHeardAt >= heardSince).length;
     const rssAfter = treeRssMb(web.pid);
+    holders.kill("SIGTERM");
+    const alive = Number((await holders.waitForLine(/^alive (\d+)$/, 30_000))[1]) + (watcher.open && watcher.lastHeardAt >= Date.now() - heardWithinMs ? 1 : 0);
     await load.stop();
     log(`held ${alive}/${clientCount} clients for ${sseHoldSeconds} s; web RSS ${rssAfter.toFixed(0)} MB (peak ${rssPeak.toFixed(0)}); ${latencies.length} readings timed`);
     void seconds; // the hold, not the per-section window, sets this section's length

@@ -1,0 +1,23 @@
+import { createSeededDatabase } from "./tests/integration/helpers/database";
+import { openDb } from "./tests/integration/helpers/tidewell";
+import { addYearOfHistory } from "./scripts/bench/live";
+const db = await createSeededDatabase({ label: "tmp-series" });
+const client = openDb(db);
+const tank = await addYearOfHistory(client, Date.now());
+const pid = Number((await client.execute({ sql: "SELECT id FROM probes WHERE tank_id = ?", args: [tank] })).rows[0].id);
+const now = Date.now();
+const q = async (name: string, sql: string, args: unknown[]) => {
+  const t0 = performance.now();
+  let n = 0;
+  for (let i = 0; i < 10; i++) n = (await client.execute({ sql, args: args as never })).rows.length;
+  console.log(name, ((performance.now() - t0) / 10).toFixed(1), "ms", n, "rows");
+};
+const start = Math.floor((now - 365 * 86400000) / 21600000) * 21600000;
+await q("hourly365", `SELECT (hour - CAST(? AS INTEGER)) / CAST(? AS INTEGER) AS b, min(min), max(max), sum(sum), sum(count) FROM rollups_hourly WHERE probe_id IN (?) AND hour >= ? AND hour < ? GROUP BY b`, [start, 21600000, pid, start, now - 600000]);
+await q("raw5min", `SELECT (ts - CAST(? AS INTEGER)) / CAST(? AS INTEGER) AS b, min(value), count(value) FROM readings WHERE probe_id IN (?) AND ts >= ? AND ts < ? AND value IS NOT NULL GROUP BY b`, [start, 21600000, pid, now - 300000, now]);
+await q("minutes", `SELECT (minute - CAST(? AS INTEGER)) / CAST(? AS INTEGER) AS b, min(min), sum(count) FROM rollups WHERE probe_id IN (?) AND minute >= ? AND minute < ? GROUP BY b`, [start, 21600000, pid, now - 3600000, now - 300000]);
+await q("holds", `SELECT * FROM holds WHERE tank_id = ? AND placed_at < ? AND (released_at IS NULL OR released_at >= ?)`, [tank, now, start]);
+await q("runs", `SELECT id FROM calibration_runs WHERE probe_id IN (?) AND completed_at IS NOT NULL AND completed_at >= ? AND completed_at <= ?`, [pid, start, now]);
+await q("explain", `EXPLAIN QUERY PLAN SELECT (hour - CAST(? AS INTEGER)) / CAST(? AS INTEGER) AS b, min(min) FROM rollups_hourly WHERE probe_id IN (?) AND hour >= ? AND hour < ? GROUP BY b`, [start, 21600000, pid, start, now]);
+console.log((await client.execute({ sql: `EXPLAIN QUERY PLAN SELECT (hour - CAST(? AS INTEGER)) / CAST(? AS INTEGER) AS b, min(min) FROM rollups_hourly WHERE probe_id IN (?) AND hour >= ? AND hour < ? GROUP BY b`, args: [start, 21600000, pid, start, now] })).rows);
+client.close(); db.remove();
