@@ -16,10 +16,10 @@ const schema = z.object({
   INGEST_SESSION_EXPIRY_S: z.coerce.number().int().positive().default(7 * 86_400),
   /** A batch is committed at the latest this long after its first message arrived. */
   INGEST_FLUSH_MS: z.coerce.number().int().positive().default(50),
-  /** ...or as soon as it holds this many rows. */
-  INGEST_BATCH_ROWS: z.coerce.number().int().positive().default(500),
+  /** ...or as soon as it holds this many rows: a cap; batches are sized by time, so fewer, larger transactions at high rates. */
+  INGEST_BATCH_ROWS: z.coerce.number().int().positive().default(10_000),
   /** Above this many uncommitted rows the worker stops reading from the broker (backpressure). */
-  INGEST_MAX_PENDING_ROWS: z.coerce.number().int().positive().default(20_000),
+  INGEST_MAX_PENDING_ROWS: z.coerce.number().int().positive().default(40_000),
   INGEST_HEALTH_MS: z.coerce.number().int().positive().default(1000),
   /** How often calibrations, holds and the probe registry are re-read (events also refresh them). */
   INGEST_REFRESH_MS: z.coerce.number().int().positive().default(2000),

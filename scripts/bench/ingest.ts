@@ -15,7 +15,16 @@ const credentials = (file: string) => JSON.parse(fs.readFileSync(file, "utf8")) 
 
 export const ingestSection: BenchSection = {
   name: "ingest",
-  metrics: { ingest_readings_per_s: "readings/s", sqlite_insert_ceiling_per_s: "rows/s", ingest_vs_ceiling_ratio: "ratio", ingest_rss_mb: "MB" },
+  metrics: {
+    ingest_readings_per_s: "readings/s",
+    broker_cpu_us_per_reading: "µs",
+    ingest_cpu_us_per_reading: "µs",
+    publisher_cpu_us_per_reading: "µs",
+    load_average_1m: "load",
+    sqlite_insert_ceiling_per_s: "rows/s",
+    ingest_vs_ceiling_ratio: "ratio",
+    ingest_rss_mb: "MB",
+  },
   async *run({ seconds, log }): AsyncIterable<Metric> {
     const db = await createSeededDatabase({ label: "bench" });
     const client = openDb(db);
@@ -59,6 +68,9 @@ export const ingestSection: BenchSection = {
       // Where the time went: CPU µs per committed reading, per process.
       log(`CPU µs per reading: ${Object.keys(pids).map((k) => `${k} ${(((cpu1[k] - cpu0[k]) * 1e6) / rows).toFixed(1)}`).join(", ")} (the machine has ${os.cpus().length} cores, load ${os.loadavg()[0].toFixed(1)})`);
       yield { metric: "ingest_readings_per_s", value: Math.round(ingestRate), unit: "readings/s" };
+      // CPU per reading does not depend on what else the machine runs, unlike the rate.
+      for (const k of Object.keys(pids)) yield { metric: `${k}_cpu_us_per_reading`, value: Math.round(((cpu1[k] - cpu0[k]) * 1e7) / rows) / 10, unit: "µs" };
+      yield { metric: "load_average_1m", value: Math.round(os.loadavg()[0] * 100) / 100, unit: "load" };
 
       const probeIds = probes.rows.map((r) => Number(r.id));
       const ceiling = measureInsertCeiling(db.file, probeIds, Math.max(100_000, Math.round(ingestRate * 5)));
