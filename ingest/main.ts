@@ -131,9 +131,11 @@ for (const signal of ["SIGTERM", "SIGINT"] as const) {
     if (retentionTimer) clearTimeout(retentionTimer);
     refresher.stop();
     hooks?.stop?.();
-    pipeline
-      .flush()
-      .then(() => session?.close())
+    // In a shared group a stopping worker first leaves it, so the others take its share at once,
+    // then commits and acknowledges what it holds, and ends its session (nothing is queued for it).
+    (shared ? session!.unsubscribeRaw().catch((err: unknown) => log.warn(`could not leave the shared group: ${errorText(err)}`)) : Promise.resolve())
+      .then(() => pipeline.flush())
+      .then(() => session?.close(shared !== null))
       .then(() => {
         log.info("stopped");
         process.exit(0);

@@ -48,7 +48,10 @@ export interface IngestSession {
   /** Runs `fn` (which sends many acks) with the socket corked: one write instead of hundreds. */
   corked(fn: () => void): void;
   publish(topic: string, payload: string | Buffer, qos?: 0 | 1, retain?: boolean): void;
-  close(): Promise<void>;
+  /** Stops new raw messages coming (the broker gives them to the rest of a shared group). */
+  unsubscribeRaw(): Promise<void>;
+  /** Disconnects; `endSession` (MQTT 5) also ends the persistent session at the broker. */
+  close(endSession?: boolean): Promise<void>;
 }
 
 export function openIngestSession(o: IngestSessionOptions): IngestSession {
@@ -141,6 +144,10 @@ export function openIngestSession(o: IngestSessionOptions): IngestSession {
       if (!client.connected) return; // live readings are best effort; the database is the record
       client.publish(topic, payload, { qos, retain });
     },
-    close: () => new Promise<void>((resolve) => client.end(false, {}, () => resolve())),
+    unsubscribeRaw: async () => {
+      if (client.connected) await client.unsubscribeAsync(o.rawFilter);
+    },
+    close: (endSession = false) =>
+      new Promise<void>((resolve) => client.end(false, endSession && o.mqtt5SessionExpirySeconds ? { properties: { sessionExpiryInterval: 0 } } : {}, () => resolve())),
   };
 }
