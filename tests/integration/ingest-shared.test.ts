@@ -3,31 +3,20 @@
 // (its persistent session kept its unacknowledged and queued share); every sample sent is stored
 // once, both workers took part, and the elected alert runner raised the faulted tank's incident once.
 import fs from "node:fs";
-import { afterEach, describe, expect, it } from "vitest";
-import type { Client } from "@libsql/client";
-import { createSeededDatabase, type TestDatabase } from "./helpers/database";
+import { describe, expect, it } from "vitest";
 import { freePort } from "./helpers/ports";
-import { stopAll, type ManagedProcess } from "./helpers/processes";
-import { countReadingsSince, mosquittoAvailable, openDb, readIngestStats, rollupCountSince, startIngest, startMosquitto, startSimulator } from "./helpers/tidewell";
+import type { ManagedProcess } from "./helpers/processes";
+import { countReadingsSince, mosquittoAvailable, readIngestStats, rollupCountSince, startIngest, startMosquitto, startSimulator } from "./helpers/tidewell";
+import { useTestDatabase } from "./helpers/use-test-database";
 import { sleep, waitFor } from "./helpers/wait";
 
-let db: TestDatabase | null = null;
-let client: Client | null = null;
-
-afterEach(async () => {
-  await stopAll();
-  client?.close();
-  db?.remove();
-  client = null;
-  db = null;
-});
+const testDb = useTestDatabase({ label: "shared" });
 
 const num = (v: unknown) => Number(v);
 
 describe("several ingest workers on one shared subscription", () => {
   it.skipIf(!mosquittoAvailable())("lose, duplicate and double-alert nothing when one is killed mid-stream", async () => {
-    db = await createSeededDatabase({ label: "shared" });
-    const c = (client = openDb(db));
+    const { db, client: c } = testDb;
     const mosquitto = await startMosquitto(db.dir);
 
     // One tank's solution temperature goes out of band; quick rules make it fire within seconds.
@@ -41,7 +30,7 @@ describe("several ingest workers on one shared subscription", () => {
 
     const smtpNowhere = `smtp://127.0.0.1:${await freePort()}`; // mail fails and is logged; incidents are what count
     const worker = (name: string) =>
-      startIngest(db!, mosquitto.url, {
+      startIngest(db, mosquitto.url, {
         INGEST_SHARED_GROUP: "tidewell-ingest",
         INGEST_WORKER_NAME: name,
         ALERTS_TICK_MS: "1000",

@@ -1,35 +1,21 @@
 // The tank series reads the resolution its range calls for: minute rollups up to two weeks,
 // hourly rollups beyond (30 days and a year), and the same readings whichever it reads.
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Client } from "@libsql/client";
-import { drizzle } from "drizzle-orm/libsql";
-import * as schema from "../../db/schema";
+import { describe, expect, it } from "vitest";
 import { loadTankSeries } from "../../app/api/tanks/[id]/series/load-series";
-import { createSeededDatabase, type TestDatabase } from "./helpers/database";
-import { openDb } from "./helpers/tidewell";
+import { useTestDatabase } from "./helpers/use-test-database";
 
 const DAY = 86_400_000;
-let db: TestDatabase;
-let client: Client;
-
-beforeAll(async () => {
-  db = await createSeededDatabase({ label: "series" });
-  client = openDb(db);
-});
-afterAll(() => {
-  client.close();
-  db.remove();
-});
+const testDb = useTestDatabase({ label: "series", per: "file" });
 
 async function phProbeOfFirstTank() {
-  const rs = await client.execute("SELECT p.id, p.tank_id, s.org_id FROM probes p JOIN tanks t ON t.id = p.tank_id JOIN sites s ON s.id = t.site_id WHERE p.kind = 'ph' ORDER BY p.id LIMIT 1");
+  const rs = await testDb.client.execute("SELECT p.id, p.tank_id, s.org_id FROM probes p JOIN tanks t ON t.id = p.tank_id JOIN sites s ON s.id = t.site_id WHERE p.kind = 'ph' ORDER BY p.id LIMIT 1");
   return { probeId: Number(rs.rows[0].id), tankId: Number(rs.rows[0].tank_id), orgId: Number(rs.rows[0].org_id) };
 }
 
 describe("tank series resolutions", () => {
   it("30 days and a year read hourly rollups, a week minute ones, and all count the same readings", async () => {
+    const { db, client, orm } = testDb;
     const { probeId, tankId, orgId } = await phProbeOfFirstTank();
-    const orm = drizzle(client, { schema });
     const to = db.seedNow + 60_000;
     const valuedSince = async (from: number) =>
       Number((await client.execute({ sql: "SELECT count(value) AS n FROM readings WHERE probe_id = ? AND ts >= ? AND ts < ?", args: [probeId, from, to] })).rows[0].n);
