@@ -164,5 +164,6 @@ function ChartStack({ data, ecUnit }: { data: CachedSeries; ecUnit: EcUnit }) {
 
 function formatBucket(ms: number) {
   if (ms < 60_000) return `${ms / 1000} s`;
+  if (ms % 3_600_000 === 0) return `${ms / 3_600_000} h`; // hourly buckets: "6 h", not "6 h 0 min"
   return formatDuration(ms);
 }
