@@ -227,7 +227,10 @@ export const rollups = sqliteTable(
 );
 
 // The same summaries per hour, kept with the minute ones (by the ingest and recomputeFrom), so
-// a month or a year of history reads hundreds of rows per probe, not tens of thousands.
+// a month or a year of history reads hundreds of rows per probe, not tens of thousands. The
+// migration creates it WITHOUT ROWID (drizzle has no option for it): a probe's hours then sit
+// together in the primary key's b-tree, so a range is one sequential read and an upsert
+// touches one b-tree, not a table and its index.
 export const rollupsHourly = sqliteTable(
   "rollups_hourly",
   {

@@ -13,7 +13,7 @@ CREATE TABLE `rollups_hourly` (
 	`sum` real NOT NULL,
 	`count` integer NOT NULL,
 	PRIMARY KEY(`probe_id`, `hour`)
-);
+) WITHOUT ROWID;
 --> statement-breakpoint
 INSERT INTO `rollups_hourly` (`probe_id`, `hour`, `min`, `max`, `sum`, `count`)
   SELECT `probe_id`, (`minute` / 3600000) * 3600000, min(`min`), max(`max`), sum(`sum`), sum(`count`) FROM `rollups` GROUP BY 1, 2;
