@@ -3,7 +3,7 @@
 import fs from "node:fs";
 import os from "node:os";
 import { createSeededDatabase } from "../../tests/integration/helpers/database";
-import { openDb, readIngestStats, startBroker, startIngest } from "../../tests/integration/helpers/tidewell";
+import { openDb, readIngestStats, startBroker, startIngest, startMosquitto } from "../../tests/integration/helpers/tidewell";
 import { stopAll } from "../../tests/integration/helpers/processes";
 import { sleep } from "../../tests/integration/helpers/wait";
 import { measureInsertCeiling } from "./ceiling";
@@ -25,7 +25,7 @@ export const ingestSection: BenchSection = {
     ingest_vs_ceiling_ratio: "ratio",
     ingest_rss_mb: "MB",
   },
-  async *run({ seconds, log }): AsyncIterable<Metric> {
+  async *run({ seconds, log, brokerKind }): AsyncIterable<Metric> {
     const db = await createSeededDatabase({ label: "bench" });
     const client = openDb(db);
     try {
@@ -38,11 +38,12 @@ export const ingestSection: BenchSection = {
       }
       const targets: PublisherTarget[] = credentials(db.credentialsFile).map((c) => ({ ...c, serials: serialsByController.get(c.controllerId) ?? [] }));
 
-      const broker = await startBroker(db);
+      // The embedded broker by default; --broker mosquitto measures the chain on Debian's Mosquitto.
+      const broker = brokerKind === "mosquitto" ? await startMosquitto(db.dir) : await startBroker(db);
       const ingest = await startIngest(db, broker.url, { INGEST_HEALTH_MS: "500" });
       const pids = { broker: broker.process.pid, ingest: ingest.pid, publisher: process.pid };
       const cpu = () => Object.fromEntries(Object.entries(pids).map(([k, pid]) => [k, cpuSeconds(pid) ?? NaN]));
-      log(`publishing through ${broker.url} from ${targets.length} controllers`);
+      log(`publishing through ${brokerKind === "mosquitto" ? "Mosquitto" : "the embedded broker"} at ${broker.url} from ${targets.length} controllers`);
       const publisher = new LoadPublisher(broker.url, targets);
       await publisher.start();
 

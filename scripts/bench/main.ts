@@ -7,6 +7,7 @@
 //   --seconds N             measuring window per section (default 10)
 //   --sse-hold-seconds N    how long the live section holds its SSE clients (default 60)
 //   --sse-clients N         how many SSE clients it holds (default 1000)
+//   --broker mosquitto      the ingest section publishes through Debian's Mosquitto, not the embedded broker
 import { parseArgs } from "node:util";
 import os from "node:os";
 import { z } from "zod";
@@ -18,12 +19,13 @@ import { printMetric, type BenchSection } from "./metric";
 const SECTIONS: BenchSection[] = [ingestSection, liveSection, alertsSection];
 
 const { values } = parseArgs({
-  options: { only: { type: "string" }, seconds: { type: "string" }, "sse-hold-seconds": { type: "string" }, "sse-clients": { type: "string" } },
+  options: { only: { type: "string" }, seconds: { type: "string" }, "sse-hold-seconds": { type: "string" }, "sse-clients": { type: "string" }, broker: { type: "string" } },
   strict: true,
 });
 const seconds = z.coerce.number().positive().default(10).parse(values.seconds);
 const sseHoldSeconds = z.coerce.number().positive().default(60).parse(values["sse-hold-seconds"]);
 const sseClients = z.coerce.number().int().positive().default(1000).parse(values["sse-clients"]);
+const brokerKind = z.enum(["embedded", "mosquitto"]).default("embedded").parse(values.broker);
 const only = values.only?.split(",").map((s) => s.trim());
 const chosen = only ? SECTIONS.filter((s) => only.includes(s.name)) : SECTIONS;
 if (chosen.length === 0) throw new Error(`no bench section named ${values.only}; have ${SECTIONS.map((s) => s.name).join(", ")}`);
@@ -34,7 +36,7 @@ for (const section of chosen) {
   log(`starting (load average ${os.loadavg().map((l) => l.toFixed(2)).join(", ")}, ${os.cpus().length} cores)`);
   const printed = new Set<string>();
   try {
-    for await (const metric of section.run({ seconds, sseHoldSeconds, sseClients, log })) {
+    for await (const metric of section.run({ seconds, sseHoldSeconds, sseClients, brokerKind, log })) {
       printMetric(metric);
       printed.add(metric.metric);
     }

@@ -15,6 +15,8 @@ export interface SectionOptions {
   /** How long the live section holds its SSE clients. */
   sseHoldSeconds: number;
   sseClients: number;
+  /** The broker the ingest section publishes through. */
+  brokerKind: "embedded" | "mosquitto";
   log: (line: string) => void;
 }
 
