@@ -99,6 +99,9 @@ export function startElectedAlerts(o: ElectedAlertsOptions): AlertsHandle & { is
   /** Feeds the runner every row committed since the cursor, a page at a time. */
   async function drain(r: AlertRunner) {
     for (;;) {
+      // Renewed before every page: a long catch-up never outlives the lease, so no other worker
+      // can have taken it over while this one still evaluates.
+      if (!(await holdLease(Date.now())) || runner !== r) return;
       const rows = z
         .array(readingRow)
         .parse(await db.all(sql`SELECT rowid, probe_id, ts, raw, value, quality FROM readings WHERE rowid > ${cursor} ORDER BY rowid LIMIT ${PAGE_ROWS}`));
