@@ -5,6 +5,7 @@
 //   series_365d_ms            the same over a year (older than 30 days: rollups only, as retention leaves it)
 //   sse_clients_held          concurrent SSE clients (1,000) still receiving after being held for 60 s
 //   sse_rss_growth_mb         growth of the web process's resident memory from before opening them to the end
+//   sse_rss_growth_during_hold_mb  the same from when all were open and served to the end (a leak would show here)
 //   publish_to_stream_p95_ms  device publish → the reading arriving at one of those clients, at 1,000 readings/s, during the hold
 import fs from "node:fs";
 import path from "node:path";
@@ -242,6 +243,7 @@ export async function* benchLive(opts: SectionOptions): AsyncIterable<Metric> {
     const load = await pacedPublisher(broker.url, targets, 1000);
     await sleep(3000);
     measuring = true;
+    const rssHolding = treeRssMb(web.pid); // every client open and served
     const holdStarted = Date.now();
     let rssPeak = 0;
     while (Date.now() - holdStarted < sseHoldSeconds * 1000) {
@@ -257,6 +259,8 @@ export async function* benchLive(opts: SectionOptions): AsyncIterable<Metric> {
     void seconds; // the hold, not the per-section window, sets this section's length
     yield { metric: "sse_clients_held", value: alive, unit: "clients" };
     yield { metric: "sse_rss_growth_mb", value: Math.round((rssAfter - rssBefore) * 10) / 10, unit: "MB" };
+    // Growth over the hold itself, once every client was open: what a leak would show.
+    yield { metric: "sse_rss_growth_during_hold_mb", value: Math.round((rssAfter - rssHolding) * 10) / 10, unit: "MB" };
     yield { metric: "publish_to_stream_p95_ms", value: Math.round(p95(latencies)), unit: "ms" };
   } catch (err) {
     log(`failed; the web's last output:\n${webOutput().split("\n").slice(-30).join("\n")}`);
@@ -271,6 +275,6 @@ export async function* benchLive(opts: SectionOptions): AsyncIterable<Metric> {
 
 export const liveSection: BenchSection = {
   name: "live",
-  metrics: { series_30d_ms: "ms", series_365d_ms: "ms", sse_clients_held: "clients", sse_rss_growth_mb: "MB", publish_to_stream_p95_ms: "ms" },
+  metrics: { series_30d_ms: "ms", series_365d_ms: "ms", sse_clients_held: "clients", sse_rss_growth_mb: "MB", sse_rss_growth_during_hold_mb: "MB", publish_to_stream_p95_ms: "ms" },
   run: benchLive,
 };
