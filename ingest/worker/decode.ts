@@ -6,7 +6,7 @@
 // profile. A message with any sample that breaks a rule is refused as a whole ("invalid-schema"),
 // as before; tests/unit/ingest-decode.test.ts holds the two checks to the same verdicts.
 import { z } from "zod";
-import { MAX_RAW_PAYLOAD_BYTES, rawMessage, type RawMessage, type RawSample, type RefusalReason } from "../payloads";
+import { MAX_RAW_PAYLOAD_BYTES, type RawMessage, type RawSample, type RefusalReason } from "../payloads";
 
 export type Decoded = { ok: true; message: RawMessage } | { ok: false; reason: RefusalReason };
 
@@ -48,8 +48,3 @@ export function decodeRaw(payload: Uint8Array, maxBytes = MAX_RAW_PAYLOAD_BYTES)
   return { ok: true, message: { v: 1, seq: head.data.seq, samples } };
 }
 
-/** The full zod schema's verdict, for tests that hold decodeRaw to it. */
-export function decodeRawWithZod(json: unknown): RawMessage | null {
-  const parsed = rawMessage.safeParse(json);
-  return parsed.success ? parsed.data : null;
-}

@@ -1,7 +1,14 @@
 // The ingest's hand-checked sample validation gives the same verdicts as the zod schema of a raw
 // message (ingest/payloads.ts), on good messages and on every kind of bad sample.
 import { describe, expect, it } from "vitest";
-import { decodeRaw, decodeRawWithZod } from "../../ingest/worker/decode";
+import { rawMessage } from "../../ingest/payloads";
+import { decodeRaw } from "../../ingest/worker/decode";
+
+/** The full zod schema's verdict. */
+const decodeRawWithZod = (json: unknown) => {
+  const parsed = rawMessage.safeParse(json);
+  return parsed.success ? parsed.data : null;
+};
 
 const good = { serial: "PH-24-0101", ts: 1767225600000, signal: 54.06 };
 const bytes = (v: unknown) => new TextEncoder().encode(typeof v === "string" ? v : JSON.stringify(v));
