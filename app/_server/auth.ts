@@ -2,6 +2,7 @@ import NextAuth, { CredentialsSignin, type DefaultSession } from "next-auth";
 import Credentials from "next-auth/providers/credentials";
 import { z } from "zod";
 import type { Role } from "@/db/schema";
+import { requireSecret } from "@/ingest/secrets";
 import { checkPassword } from "./sign-in-throttle";
 
 declare module "next-auth" {
@@ -27,9 +28,11 @@ const credentialsSchema = z.object({
   password: z.string().min(1).max(200),
 });
 
-export const { handlers, auth, signIn, signOut } = NextAuth({
+// Configured lazily, per request: the secret is read when a request arrives (the server refuses to
+// start without it, see instrumentation.ts), never at build time and never from the source.
+export const { handlers, auth, signIn, signOut } = NextAuth(() => ({
   trustHost: true,
-  secret: process.env.AUTH_SECRET ?? "tidewell-demo-secret-change-me-in-production-000",
+  secret: requireSecret("AUTH_SECRET"),
   session: { strategy: "jwt", maxAge: 12 * 60 * 60 },
   pages: { signIn: "/sign-in" },
   providers: [
@@ -61,4 +64,4 @@ export const { handlers, auth, signIn, signOut } = NextAuth({
       return session;
     },
   },
-});
+}));

@@ -8,15 +8,15 @@ import type { Db } from "../client";
 import { notifications, organisations, usedTokens, users } from "../schema";
 import { ApiError } from "../../app/_server/errors";
 import { appUrl, sendMail } from "../../ingest/mailer";
+import { requireSecret } from "../../ingest/secrets";
 import { ROLE_NAMES } from "../../lib/settings/enums";
 import { audit } from "./audit";
 
 export const INVITATION_TTL_MS = 72 * 3_600_000;
 const PURPOSE = "invite";
 
-// Same secret (and demo fallback) as the session signer in app/_server/auth.ts.
 function secret() {
-  return new TextEncoder().encode(process.env.AUTH_SECRET ?? "tidewell-demo-secret-change-me-in-production-000");
+  return new TextEncoder().encode(requireSecret("AUTH_SECRET"));
 }
 
 export async function signInvitation(userId: number, now = Date.now()): Promise<string> {

@@ -217,7 +217,7 @@ describe("settings API", () => {
     expect(secret).not.toBe(cred.secret);
     await expect(connectAsync(mqttUrl, { clientId: cred.controllerId, username: cred.username, password: cred.secret, reconnectPeriod: 0, connectTimeout: 5000 })).rejects.toThrow();
 
-    const device: MqttClient = await connectAsync(mqttUrl, { clientId: `${cred.controllerId}-test`, username: cred.username, password: secret, reconnectPeriod: 0, connectTimeout: 5000 });
+    const device: MqttClient = await connectAsync(mqttUrl, { clientId: `${cred.controllerId}:test`, username: cred.username, password: secret, reconnectPeriod: 0, connectTimeout: 5000 });
     let closed = false;
     device.on("close", () => (closed = true));
     try {
