@@ -2,6 +2,7 @@
 // check the session, check the role, parse the input with zod, run, return a typed result.
 import { z } from "zod";
 import type { Role } from "@/db/schema";
+import { MAX_JSON_BODY_BYTES, readBodyCapped } from "./body-limit";
 import { ApiError, forbidden, unauthorized, validationError, type ApiErrorBody } from "./errors";
 import { currentUser, type SessionUser } from "./session";
 
@@ -19,6 +20,8 @@ interface RouteSpec<P, Q, B> {
   params?: P;
   query?: Q;
   body?: B;
+  /** Cap on the JSON body (default MAX_JSON_BODY_BYTES). */
+  maxBodyBytes?: number;
   status?: number;
 }
 
@@ -53,8 +56,8 @@ function parse<S extends Schema | undefined>(schema: S, value: unknown, where: s
   return result.data as Out<S>;
 }
 
-async function readJson(req: Request): Promise<unknown> {
-  const text = await req.text();
+async function readJson(req: Request, maxBytes = MAX_JSON_BODY_BYTES): Promise<unknown> {
+  const text = new TextDecoder().decode(await readBodyCapped(req, maxBytes));
   if (!text) return {};
   try {
     return JSON.parse(text);
@@ -67,8 +70,8 @@ async function readJson(req: Request): Promise<unknown> {
  * Reads and validates a JSON body inside a handler. Routes on one record use it after looking the
  * record up in the caller's organisation, so another farm's ids answer 404 whatever the body says.
  */
-export async function parseBody<S extends Schema>(req: Request, schema: S): Promise<z.output<S>> {
-  return parse(schema, await readJson(req), "request body") as z.output<S>;
+export async function parseBody<S extends Schema>(req: Request, schema: S, maxBytes = MAX_JSON_BODY_BYTES): Promise<z.output<S>> {
+  return parse(schema, await readJson(req, maxBytes), "request body") as z.output<S>;
 }
 
 /** Wraps a route handler: session, role, zod-parsed params/query/body, JSON result. */
@@ -81,7 +84,7 @@ export function guarded<P extends Schema | undefined = undefined, Q extends Sche
       const user = await authorise(spec.roles, spec.action);
       const params = parse(spec.params, await context.params, "address") as Out<P>;
       const query = parse(spec.query, Object.fromEntries(new URL(req.url).searchParams), "query") as Out<Q>;
-      const body = parse(spec.body, spec.body ? await readJson(req) : undefined, "request body") as Out<B>;
+      const body = parse(spec.body, spec.body ? await readJson(req, spec.maxBodyBytes) : undefined, "request body") as Out<B>;
       const result = await run({ user, params, query, body, req });
       if (result instanceof Response) return result;
       return Response.json(result ?? { ok: true }, { status: spec.status ?? 200 });
