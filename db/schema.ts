@@ -432,7 +432,7 @@ export const alertState = sqliteTable("alert_state", {
 });
 
 export const signInAttempts = sqliteTable("sign_in_attempts", {
-  key: text("key").primaryKey(), // lower-cased e-mail
+  key: text("key").primaryKey(), // "{address} {e-mail}" or "account {e-mail}" (lower-cased e-mail)
   failures: integer("failures").notNull().default(0),
   lastFailureAt: integer("last_failure_at").notNull(),
   lockedUntil: integer("locked_until"),

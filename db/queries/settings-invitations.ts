@@ -86,3 +86,20 @@ export async function mailInvitation(db: Db, invitee: typeof users.$inferSelect,
   await db.insert(notifications).values({ orgId: invitee.orgId, userId: invitee.id, kind: "invitation", toAddress: invitee.email, subject, status: error ? "failed" : "sent", error, sentAt: now });
   return { mailed: error === null };
 }
+
+/** Tells the holder of an address that another organisation tried to invite it; nothing changes. */
+export async function mailInvitedElsewhere(db: Db, holder: typeof users.$inferSelect, inviter: { orgId: number; name: string }): Promise<boolean> {
+  const org = await db.query.organisations.findFirst({ where: eq(organisations.id, inviter.orgId) });
+  const text = [
+    `Hello ${holder.name},`,
+    "",
+    `${inviter.name} of ${org?.name ?? "another farm"} tried to invite this address to Tidewell. It already has an account with another organisation, so nothing was changed.`,
+    "If you want to join them, ask them to invite another address of yours. If you did not expect this, ignore this e-mail.",
+  ].join("\n");
+  try {
+    await sendMail({ to: holder.email, subject: `[Tidewell] ${inviter.name} tried to invite you to ${org?.name ?? "their farm"}`, text });
+    return true;
+  } catch {
+    return false;
+  }
+}

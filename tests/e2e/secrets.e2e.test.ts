@@ -13,11 +13,11 @@ const FORMER_BUILT_IN_SECRET = "tidewell-demo-secret-change-me-in-production-000
 
 async function ownerToken(secret: string) {
   const db = createClient({ url: inject("databaseUrl") });
-  const owner = await db.execute("SELECT id, org_id, email FROM users WHERE role = 'owner' ORDER BY id LIMIT 1");
+  const owner = await db.execute("SELECT id, org_id, email, session_version FROM users WHERE role = 'owner' ORDER BY id LIMIT 1");
   db.close();
   const row = owner.rows[0];
   const salt = "authjs.session-token";
-  const value = await encode({ salt, secret, token: { sub: String(row.id), uid: String(row.id), role: "owner", orgId: Number(row.org_id), email: String(row.email) } });
+  const value = await encode({ salt, secret, token: { sub: String(row.id), uid: String(row.id), role: "owner", orgId: Number(row.org_id), email: String(row.email), sv: Number(row.session_version) } });
   return `${salt}=${value}`;
 }
 

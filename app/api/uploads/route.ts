@@ -9,7 +9,7 @@ const MULTIPART_OVERHEAD_BYTES = 64 * 1024;
 const tooLarge = () => new ApiError(413, "too_large", "The file is larger than 5 MB; scan or photograph it at a lower resolution.");
 
 /** Uploads a buffer certificate or photo (PDF, PNG or JPEG, at most 5 MB) as multipart field "file". */
-export const POST = guarded({ roles: CAN_CHANGE, action: "attach certificates", status: 201 }, async ({ user, req }) => {
+export const POST = guarded({ roles: CAN_CHANGE, action: "attach certificates", accepts: "multipart", status: 201 }, async ({ user, req }) => {
   // Read against the cap as it streams (declared length or not), then parse the form.
   const raw = await readBodyCapped(req, MAX_UPLOAD_BYTES + MULTIPART_OVERHEAD_BYTES, tooLarge);
   let form: FormData;
