@@ -1,12 +1,11 @@
 // Holds end to end. While an alert is firing the grower places a hold from the tank wall in
 // Chromium: the controller is told to stop dosing, readings are flagged held, the tank goes
 // quiet; releasing it brings alerts back after settling. A forgotten hold alerts and escalates.
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { launch, shot, signInAs } from "./browser";
+import { describe, expect, it } from "vitest";
+import { shot } from "./browser";
 import { sessionFor } from "./session";
 import { waitFor } from "./stack";
-import { QUICK_SETTLE_MS, startHarness, type Harness } from "./incidents-harness";
+import { QUICK_SETTLE_MS, useIncidentHarness, type Harness } from "./incidents-harness";
 
 /** Latest readings of a tank's probe of one kind, newest first. */
 async function latest(h: Harness, tankId: number, kind: string, n: number) {
@@ -31,29 +30,18 @@ async function heldFor(h: Harness, tankId: number, spanMs: number, ok: (v: numbe
 }
 
 describe("holds", () => {
-  const baseURL = inject("baseURL");
-  let h: Harness;
-  let browser: Browser;
-  beforeAll(async () => {
-    h = await startHarness();
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await h?.fault("ctl-north-g2", "none");
-    await browser?.close();
-    await h?.stop();
-  });
+  const harness = useIncidentHarness();
+  const { baseURL } = harness;
 
   it("the grower holds a tank from the wall while its alert fires; it goes quiet and alerts return after release", async () => {
+    const { h } = harness;
     const tank = await h.tank("G2 Rocket");
     await h.quickRules(tank.id);
     await h.fault(tank.controllerId, "out-of-band", "temp");
     await waitFor("the alert", async () => (await h.incidents(tank.id, "out-of-band")).some((i) => i.state === "open"), 120_000, 500);
     const [incident] = (await h.incidents(tank.id, "out-of-band")).filter((i) => i.state === "open");
 
-    const context = await browser.newContext({ viewport: { width: 1440, height: 1000 } });
-    const page = await context.newPage();
-    await signInAs(page, baseURL, "grower");
+    const { context, page } = await harness.signedIn("grower");
     const tile = page.locator(`[data-tank="${tank.id}"]`);
     await tile.getByRole("button", { name: "Hold", exact: true }).click();
     const dialog = page.getByRole("dialog", { name: /Put G2 Rocket on hold/ });
@@ -100,6 +88,7 @@ describe("holds", () => {
   }, 300_000);
 
   it("a forgotten hold alerts, and escalates to the owner when nobody acknowledges", async () => {
+    const { h } = harness;
     const tank = await h.tank("P2 Strawberry runners");
     const owner = await sessionFor(baseURL, "owner");
     // The shortest escalation delay the site settings accept.
@@ -138,6 +127,7 @@ describe("holds", () => {
   }, 120_000);
 
   it("refuses a hold from the night manager and a hold longer than the site allows", async () => {
+    const { h } = harness;
     const tank = await h.tank("L3 Romaine");
     const night = await sessionFor(baseURL, "night_manager");
     const body = JSON.stringify({ tankId: tank.id, reason: "Probe cleaning", minutes: 30 });

@@ -1,11 +1,16 @@
 // What the incident and hold end-to-end tests share: quick rule overrides for one tank, the
-// mail sink, and simulator faults. The alert runner itself runs inside the stack's ingest
-// (ingest/hooks.ts → ingest/alerts/wire.ts, ticking every second per global-setup.ts).
-import { inject } from "vitest";
+// mail sink, simulator faults, Chromium and signed-in pages. The alert runner itself runs inside
+// the stack's ingest (ingest/hooks.ts → ingest/alerts/wire.ts, ticking every second per
+// global-setup.ts). useIncidentHarness() is the one set-up and teardown: a test file calls it
+// once, and everything it opened (faults, browser contexts, clients) is undone after the file.
+import { afterAll, beforeAll, inject } from "vitest";
 import mqtt, { type MqttClient } from "mqtt";
 import { createClient, type Client } from "@libsql/client";
+import type { Browser, BrowserContext, BrowserContextOptions, Page } from "playwright-core";
 import { SERVICE_ACCOUNTS, topics } from "@/ingest/topics";
 import type { SimFault } from "@/ingest/payloads";
+import type { Role } from "@/db/schema";
+import { launch, signInAs } from "./browser";
 
 export interface Harness {
   db: Client;
@@ -16,6 +21,7 @@ export interface Harness {
   fault(controllerId: string, fault: SimFault, measure?: "ph" | "ec" | "temp"): Promise<void>;
   mails(to: string, subjectPart: string): Promise<{ subject: string; text: string; to: string[] }[]>;
   incidents(tankId: number, cause: string): Promise<{ id: number; state: string; cleared_at: number | null; opened_at: number; acknowledged_by: number | null }[]>;
+  /** Ends every fault this harness set, then closes its clients. */
   stop(): Promise<void>;
 }
 
@@ -23,7 +29,7 @@ const QUICK = { fireDelayMs: 3000, clearDelayMs: 3000 };
 /** Settling after a hold on a quick-rules tank: longer than the clear delay, so a test can tell them apart. */
 export const QUICK_SETTLE_MS = 8000;
 
-export async function startHarness(): Promise<Harness> {
+async function startHarness(): Promise<Harness> {
   // The ingest writes every second: wait for its locks rather than fail.
   const db = createClient({ url: inject("databaseUrl"), timeout: 10_000 });
   const client = await mqtt.connectAsync(inject("mqttUrl"), {
@@ -31,6 +37,11 @@ export async function startHarness(): Promise<Harness> {
     username: SERVICE_ACCOUNTS.web.username,
     password: SERVICE_ACCOUNTS.web.password(),
   });
+  const faulted = new Set<string>();
+  const sendFault = async (controllerId: string, fault: SimFault, measure?: "ph" | "ec" | "temp") => {
+    faulted.add(controllerId);
+    await client.publishAsync(topics.simControl(controllerId), JSON.stringify({ v: 1, fault, ...(measure ? { measure } : {}) }), { qos: 1 });
+  };
   return {
     db,
     mqtt: client,
@@ -53,9 +64,7 @@ export async function startHarness(): Promise<Harness> {
         await db.execute({ sql: "INSERT INTO alert_rules (org_id, tank_id, cause, enabled, settings) VALUES (?, ?, ?, ?, ?)", args: [orgId, tankId, cause, enabled ? 1 : 0, JSON.stringify(settings)] });
       }
     },
-    async fault(controllerId, fault, measure) {
-      await client.publishAsync(topics.simControl(controllerId), JSON.stringify({ v: 1, fault, ...(measure ? { measure } : {}) }), { qos: 1 });
-    },
+    fault: sendFault,
     async mails(to, subjectPart) {
       const res = await fetch(`${inject("mailSinkURL")}/messages?to=${encodeURIComponent(to)}`);
       const { messages } = (await res.json()) as { messages: { subject: string; text: string; to: string[] }[] };
@@ -66,8 +75,52 @@ export async function startHarness(): Promise<Harness> {
       return r.rows.map((x) => ({ id: Number(x.id), state: String(x.state), cleared_at: x.cleared_at === null ? null : Number(x.cleared_at), opened_at: Number(x.opened_at), acknowledged_by: x.acknowledged_by === null ? null : Number(x.acknowledged_by) }));
     },
     async stop() {
+      for (const controllerId of faulted) await sendFault(controllerId, "none");
       await client.endAsync();
       db.close();
+    },
+  };
+}
+
+export interface UsedHarness {
+  /** The harness (database, broker, mail sink, faults); valid inside tests. */
+  readonly h: Harness;
+  readonly browser: Browser;
+  readonly baseURL: string;
+  /** A new browser context signed in as a demo user of `role`; closed with the harness. */
+  signedIn(role: Role, options?: BrowserContextOptions): Promise<{ context: BrowserContext; page: Page }>;
+}
+
+/** Starts the harness and Chromium before the file's tests; stops both (and ends faults) after. */
+export function useIncidentHarness(): UsedHarness {
+  const baseURL = inject("baseURL");
+  let h: Harness | undefined;
+  let browser: Browser | undefined;
+  beforeAll(async () => {
+    h = await startHarness();
+    browser = await launch();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await h?.stop();
+  });
+  const started = <T>(x: T | undefined): T => {
+    if (x === undefined) throw new Error("useIncidentHarness: use it inside a test");
+    return x;
+  };
+  return {
+    baseURL,
+    get h() {
+      return started(h);
+    },
+    get browser() {
+      return started(browser);
+    },
+    async signedIn(role, options = {}) {
+      const context = await started(browser).newContext({ viewport: { width: 1440, height: 1000 }, ...options });
+      const page = await context.newPage();
+      await signInAs(page, baseURL, role);
+      return { context, page };
     },
   };
 }

@@ -1,30 +1,20 @@
 // Incidents end to end: simulator fault → broker → ingest → alert runner → incident → mail to
 // the role on shift → the signed link in Chromium acknowledges it → the fault clears → resolved.
 // Then the owner filters the history and exports it as CSV.
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import type { Browser } from "playwright-core";
+import { describe, expect, it } from "vitest";
 import Papa from "papaparse";
 import { onShift } from "@/ingest/alerts/shifts";
-import { launch, shot, signInAs } from "./browser";
+import { shot } from "./browser";
 import { sessionFor } from "./session";
 import { waitFor } from "./stack";
-import { startHarness, type Harness } from "./incidents-harness";
+import { useIncidentHarness } from "./incidents-harness";
 
 describe("incidents", () => {
-  const baseURL = inject("baseURL");
-  let h: Harness;
-  let browser: Browser;
-  beforeAll(async () => {
-    h = await startHarness();
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await h?.fault("ctl-north-g3", "none");
-    await browser?.close();
-    await h?.stop();
-  });
+  const harness = useIncidentHarness();
+  const { baseURL } = harness;
 
   it("a fault opens an incident, the role on shift gets the mail, its link acknowledges, clearing resolves it", async () => {
+    const { h, browser } = harness;
     const tank = await h.tank("G3 Pak choi");
     await h.quickRules(tank.id);
     const site = (await h.db.execute({ sql: "SELECT * FROM sites WHERE id = ?", args: [tank.siteId] })).rows[0];
@@ -68,9 +58,7 @@ describe("incidents", () => {
     expect(kinds.rows.map((r) => r.kind)).toEqual(["opened", "notified", "acknowledged", "cleared", "resolved"]);
 
     // The owner sees the timeline and the readings around it.
-    const context = await browser.newContext({ viewport: { width: 1440, height: 1100 } });
-    const owner = await context.newPage();
-    await signInAs(owner, baseURL, "owner");
+    const { context, page: owner } = await harness.signedIn("owner", { viewport: { width: 1440, height: 1100 } });
     await owner.goto(`${baseURL}/incidents/${incident.id}`);
     await owner.locator("[data-event=resolved]").waitFor();
     await owner.locator("[data-incident-chart] canvas").first().waitFor();
@@ -79,9 +67,7 @@ describe("incidents", () => {
   }, 240_000);
 
   it("the owner filters the incident history and exports it as CSV", async () => {
-    const context = await browser.newContext({ viewport: { width: 1440, height: 1100 }, acceptDownloads: true });
-    const page = await context.newPage();
-    await signInAs(page, baseURL, "owner");
+    const { context, page } = await harness.signedIn("owner", { viewport: { width: 1440, height: 1100 }, acceptDownloads: true });
     await page.goto(`${baseURL}/incidents`);
     await page.locator("[data-table=incident-history] tbody tr").first().waitFor();
     await shot(page, "incident-history");
@@ -110,9 +96,7 @@ describe("incidents", () => {
   });
 
   it("the owner's demo mailbox lists the mail with its links clickable", async () => {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 1000 } });
-    const page = await context.newPage();
-    await signInAs(page, baseURL, "owner");
+    const { context, page } = await harness.signedIn("owner", { viewport: { width: 1280, height: 1000 } });
     await page.goto(`${baseURL}/mailbox`);
     await page.locator("[data-mail]").first().waitFor();
     await page.locator("[data-mail] summary").first().click();

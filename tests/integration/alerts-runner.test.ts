@@ -5,10 +5,11 @@ import fs from "node:fs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import mqtt, { type MqttClient } from "mqtt";
 import { and, eq, gt } from "drizzle-orm";
-import { createSeededDatabase, type TestDatabase } from "./helpers/database";
+import type { TestDatabase } from "./helpers/database";
 import { freePort } from "./helpers/ports";
-import { spawnTsx, stopAll } from "./helpers/processes";
+import { spawnTsx } from "./helpers/processes";
 import { startBroker } from "./helpers/tidewell";
+import { useTestDatabase } from "./helpers/use-test-database";
 import { waitFor } from "../e2e/stack";
 import type { Db } from "@/db/client";
 import type { AlertRunner, CommittedReading } from "@/ingest/alerts/runner";
@@ -25,6 +26,7 @@ interface Sunk {
   text: string;
 }
 
+const used = useTestDatabase({ label: "alerts", now: T0, per: "file" });
 let testDb: TestDatabase;
 let sinkUrl: string;
 let db: Db;
@@ -107,7 +109,7 @@ function newRunner() {
 }
 
 beforeAll(async () => {
-  testDb = await createSeededDatabase({ now: T0, label: "alerts" });
+  testDb = used.db;
   process.env.DATABASE_URL = testDb.url;
   const [smtpPort, httpPort] = [await freePort(), await freePort()];
   process.env.SMTP_URL = `smtp://127.0.0.1:${smtpPort}`;
@@ -156,8 +158,6 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await ingestClient?.endAsync();
-  await stopAll();
-  testDb?.remove();
 });
 
 describe("alert runner", () => {

@@ -1,17 +1,10 @@
 // Guided runs, manual entries, spot checks and CSV import against a real, migrated temporary
 // SQLite file. Readings are written with explicit timestamps (the probe's raw mV or µS as a
 // device would publish them), so nothing waits on the wall clock.
-import fs from "node:fs";
-import os from "node:os";
-import path from "node:path";
-import { afterAll, beforeAll, beforeEach, describe, expect, it } from "vitest";
-import { createClient, type Client } from "@libsql/client";
-import { drizzle } from "drizzle-orm/libsql";
-import { migrate } from "drizzle-orm/libsql/migrator";
+import { beforeAll, beforeEach, describe, expect, it } from "vitest";
 import { and, eq, isNull, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import * as schema from "@/db/schema";
-import { MIGRATIONS_FOLDER } from "@/db/migrate";
 import { abandonRun, capturePoint, completeRun, confirmStep, getRunView, startRun } from "@/db/queries/calibration-runs";
 import { calibrationInForce } from "@/db/queries/calibration-scope";
 import { createManualCalibration } from "@/db/queries/calibration-manual";
@@ -20,12 +13,11 @@ import { calibrationCompliance } from "@/db/queries/calibration-compliance";
 import { addSpotCheck, importSpotChecksCsv, listSpotChecks } from "@/db/queries/spot-checks";
 import { ApiError } from "@/app/_server/errors";
 import { DAY_MS, bufferPh, ecStandardAt, nernstSlopeMv, phFromMv } from "@/lib/calibration";
+import { useTestDatabase } from "./helpers/use-test-database";
 
 const T0 = Date.UTC(2026, 11, 2, 10, 0);
 const SEC = 1000;
 
-let dir: string;
-let client: Client;
 let db: Db;
 let user: { id: number; orgId: number };
 let otherOrg: { id: number; orgId: number };
@@ -63,11 +55,10 @@ async function refusal(p: Promise<unknown>): Promise<ApiError> {
   throw new Error("expected a refusal");
 }
 
+const testDb = useTestDatabase({ label: "cal", seed: false, per: "file" });
+
 beforeAll(async () => {
-  dir = fs.mkdtempSync(path.join(os.tmpdir(), "tidewell-cal-"));
-  client = createClient({ url: `file:${path.join(dir, "cal.db")}` });
-  db = drizzle(client, { schema });
-  await migrate(db, { migrationsFolder: MIGRATIONS_FOLDER });
+  db = testDb.orm;
   const [org] = await db.insert(schema.organisations).values({ name: "Test Farm" }).returning();
   const [u] = await db.insert(schema.users).values({ orgId: org.id, email: "g@test.example", name: "Grower", role: "grower" }).returning();
   user = { id: u.id, orgId: org.id };
@@ -89,11 +80,6 @@ beforeAll(async () => {
     ])
     .returning();
   [ph, ec, temp] = probeRows.map((p) => p.id);
-});
-
-afterAll(() => {
-  client?.close();
-  fs.rmSync(dir, { recursive: true, force: true });
 });
 
 beforeEach(async () => {

@@ -1,20 +1,15 @@
 // Buffer certificates on local disk: type by magic bytes (not the name), size limit, and
 // reading back only within the organisation. A real temporary database and upload folder.
 import fs from "node:fs";
-import os from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createClient, type Client } from "@libsql/client";
-import { drizzle } from "drizzle-orm/libsql";
-import { migrate } from "drizzle-orm/libsql/migrator";
 import type { Db } from "@/db/client";
 import * as schema from "@/db/schema";
-import { MIGRATIONS_FOLDER } from "@/db/migrate";
 import { ApiError } from "@/app/_server/errors";
 import { MAX_UPLOAD_BYTES, readUpload, sniffType, storedName, storeUpload } from "@/app/_server/storage";
+import { useTestDatabase } from "./helpers/use-test-database";
 
-let dir: string;
-let client: Client;
+const testDb = useTestDatabase({ label: "uploads", seed: false, per: "file" });
 let db: Db;
 let orgs: number[];
 let userId: number;
@@ -24,19 +19,14 @@ const PDF = new TextEncoder().encode("%PDF-1.7\n% buffer certificate\n");
 const JPEG = Uint8Array.from([0xff, 0xd8, 0xff, 0xe0, 0, 16, 0x4a, 0x46]);
 
 beforeAll(async () => {
-  dir = fs.mkdtempSync(path.join(os.tmpdir(), "tidewell-uploads-"));
-  process.env.UPLOAD_DIR = path.join(dir, "uploads");
-  client = createClient({ url: `file:${path.join(dir, "u.db")}` });
-  db = drizzle(client, { schema });
-  await migrate(db, { migrationsFolder: MIGRATIONS_FOLDER });
+  process.env.UPLOAD_DIR = path.join(testDb.db.dir, "uploads");
+  db = testDb.orm;
   orgs = (await db.insert(schema.organisations).values([{ name: "A" }, { name: "B" }]).returning()).map((o) => o.id);
   [{ id: userId }] = await db.insert(schema.users).values({ orgId: orgs[0], email: "g@a.example", name: "G", role: "grower" }).returning();
 });
 
 afterAll(() => {
-  client?.close();
   delete process.env.UPLOAD_DIR;
-  fs.rmSync(dir, { recursive: true, force: true });
 });
 
 async function refusal(p: Promise<unknown>) {

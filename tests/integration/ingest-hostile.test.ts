@@ -3,26 +3,19 @@
 // publish or subscribe outside their own topics, unknown or revoked credentials get nowhere.
 import fs from "node:fs";
 import { afterEach, describe, expect, it } from "vitest";
-import type { Client } from "@libsql/client";
 import type { MqttClient } from "mqtt";
 import { deviceClientId, topics } from "../../ingest/topics";
-import { createSeededDatabase, type TestDatabase } from "./helpers/database";
+import type { TestDatabase } from "./helpers/database";
 import { connectMqtt, endMqtt } from "./helpers/mqtt";
-import { stopAll } from "./helpers/processes";
-import { countReadingsSince, openDb, readIngestStats, startBroker, startIngest } from "./helpers/tidewell";
+import { countReadingsSince, readIngestStats, startBroker, startIngest } from "./helpers/tidewell";
+import { useTestDatabase } from "./helpers/use-test-database";
 import { sleep, waitFor } from "./helpers/wait";
 
-let db: TestDatabase | null = null;
-let client: Client | null = null;
+const testDb = useTestDatabase({ label: "hostile" });
 const open: MqttClient[] = [];
 
-afterEach(async () => {
+afterEach(() => {
   for (const c of open.splice(0)) c.end(true);
-  await stopAll();
-  client?.close();
-  db?.remove();
-  client = null;
-  db = null;
 });
 
 const credentials = (d: TestDatabase) =>
@@ -67,8 +60,7 @@ function hostilePayloads(now: number): { payloads: (string | Buffer)[]; expected
 
 describe("ingest against hostile input", () => {
   it("refuses and counts 1,000 malformed or hostile payloads and keeps working", async () => {
-    db = await createSeededDatabase({ label: "hostile" });
-    client = openDb(db);
+    const { db, client } = testDb;
     const broker = await startBroker(db);
     const ingest = await startIngest(db, broker.url);
     const since = Date.now() - 60 * DAY;
@@ -80,7 +72,7 @@ describe("ingest against hostile input", () => {
     expect(payloads).toHaveLength(1000);
     for (const p of payloads) await dev.publishAsync(topics.raw("ctl-north-l1"), p, { qos: 1 });
 
-    const stats = await waitFor(() => readIngestStats(client!), (s) => (s?.refusalsTotal ?? 0) >= 1000, { message: "1,000 refusals" });
+    const stats = await waitFor(() => readIngestStats(client), (s) => (s?.refusalsTotal ?? 0) >= 1000, { message: "1,000 refusals" });
     expect(stats!.refusals).toEqual(expected);
     expect(stats!.refusalsTotal).toBe(1000);
     expect(stats!.messagesTotal).toBe(1000);
@@ -100,13 +92,12 @@ describe("ingest against hostile input", () => {
     const ts = Date.now();
     const good = { v: 1, seq: 2, samples: [{ serial: "TS-24-0101", ts, signal: 20.1 }, { serial: "PH-24-0101", ts, signal: 35 }, { serial: "EC-24-0101", ts, signal: 1050 }] };
     await dev.publishAsync(topics.raw("ctl-north-l1"), JSON.stringify(good), { qos: 1 });
-    await waitFor(() => countReadingsSince(client!, ts), (n) => n === 3, { message: "the valid message after the flood" });
+    await waitFor(() => countReadingsSince(client, ts), (n) => n === 3, { message: "the valid message after the flood" });
     await endMqtt(dev);
   }, 90_000);
 
   it("refuses foreign topics, unknown credentials, reserved client ids and revoked devices", async () => {
-    db = await createSeededDatabase({ label: "acl" });
-    client = openDb(db);
+    const { db, client } = testDb;
     const broker = await startBroker(db);
     await startIngest(db, broker.url);
     const since = Date.now();

@@ -1,17 +1,14 @@
 // Simulator → broker → ingest → database, with the real processes on a database of its own:
 // every sample the broker acknowledged is stored exactly once, corrected and flagged, rolled
 // up and streamed; the same against Debian's mosquitto via MQTT_URL.
-import { afterEach, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import type { Client } from "@libsql/client";
 import { readingBatch } from "../../ingest/payloads";
 import { topics } from "../../ingest/topics";
-import { createSeededDatabase, type TestDatabase } from "./helpers/database";
 import { connectMqtt, endMqtt, serviceLogin } from "./helpers/mqtt";
-import { stopAll } from "./helpers/processes";
 import {
   countReadingsSince,
   mosquittoAvailable,
-  openDb,
   readIngestStats,
   rollupCountSince,
   startBroker,
@@ -19,18 +16,10 @@ import {
   startMosquitto,
   startSimulator,
 } from "./helpers/tidewell";
+import { useTestDatabase } from "./helpers/use-test-database";
 import { sleep, waitFor } from "./helpers/wait";
 
-let db: TestDatabase | null = null;
-let client: Client | null = null;
-
-afterEach(async () => {
-  await stopAll();
-  client?.close();
-  db?.remove();
-  client = null;
-  db = null;
-});
+const testDb = useTestDatabase({ label: "pipeline" });
 
 async function qualityOf(c: Client, tankName: string, kind: string, since: number): Promise<string[]> {
   const rs = await c.execute({
@@ -50,8 +39,7 @@ async function expectExactly(c: Client, since: number, expected: number) {
 
 describe("ingest pipeline", () => {
   it("stores every acknowledged sample exactly once, corrected, flagged, rolled up and streamed", async () => {
-    db = await createSeededDatabase({ label: "pipeline" });
-    client = openDb(db);
+    const { db, client } = testDb;
     const broker = await startBroker(db);
     await startIngest(db, broker.url);
     const web = await connectMqtt(broker.url, serviceLogin("web", "pipeline"));
@@ -88,7 +76,7 @@ describe("ingest pipeline", () => {
     expect(range.temp[0]).toBeGreaterThan(12);
     expect(range.temp[1]).toBeLessThan(28);
 
-    const stats = await waitFor(() => readIngestStats(client!), (s) => (s?.readingsTotal ?? 0) >= summary.samples, { message: "health snapshot" });
+    const stats = await waitFor(() => readIngestStats(client), (s) => (s?.readingsTotal ?? 0) >= summary.samples, { message: "health snapshot" });
     expect(stats).toMatchObject({ readingsTotal: summary.samples, duplicatesTotal: 0, refusalsTotal: 0, mqttConnected: true });
     await waitFor(() => streamed, (n) => n >= summary.samples, { timeoutMs: 5000, message: "streamed readings" });
     expect(streamed).toBe(summary.samples);
@@ -98,8 +86,7 @@ describe("ingest pipeline", () => {
   }, 90_000);
 
   it.skipIf(!mosquittoAvailable())("does the same through Debian's mosquitto (MQTT_URL)", async () => {
-    db = await createSeededDatabase({ label: "mosquitto" });
-    client = openDb(db);
+    const { db, client } = testDb;
     const mosquitto = await startMosquitto(db.dir);
     await startIngest(db, mosquitto.url);
     const since = Date.now();

@@ -1,30 +1,18 @@
 // Recomputing stored readings when a calibration is saved with an effective time in the past
 // (recomputeFrom, called by the web on save), and the live ingest picking up a calibration and
 // a hold saved while it streams, correcting what it had already written with the old view.
-import { afterEach, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import type { Client } from "@libsql/client";
-import { drizzle } from "drizzle-orm/libsql";
-import * as schema from "../../db/schema";
 import { phFromMv } from "../../lib/calibration";
 import { recomputeFrom } from "../../ingest/recompute";
 import { topics } from "../../ingest/topics";
 import type { OrgEvent } from "../../ingest/payloads";
-import { createSeededDatabase, type TestDatabase } from "./helpers/database";
 import { connectMqtt, endMqtt, serviceLogin } from "./helpers/mqtt";
-import { stopAll } from "./helpers/processes";
-import { countReadingsSince, openDb, startBroker, startIngest, startSimulator } from "./helpers/tidewell";
+import { countReadingsSince, startBroker, startIngest, startSimulator } from "./helpers/tidewell";
+import { useTestDatabase } from "./helpers/use-test-database";
 import { sleep, waitFor } from "./helpers/wait";
 
-let db: TestDatabase | null = null;
-let client: Client | null = null;
-
-afterEach(async () => {
-  await stopAll();
-  client?.close();
-  db?.remove();
-  client = null;
-  db = null;
-});
+const testDb = useTestDatabase({ label: "recompute" });
 
 const DAY = 86_400_000;
 const num = (v: unknown) => Number(v);
@@ -56,9 +44,7 @@ async function phWithTemps(c: Client, probeId: number, tempProbeId: number, from
 
 describe("recomputing readings after a calibration", () => {
   it("recomputeFrom corrects every reading from the effective time on, and rebuilds its rollups", async () => {
-    db = await createSeededDatabase({ label: "recompute" });
-    client = openDb(db);
-    const orm = drizzle(client, { schema });
+    const { db, client, orm } = testDb;
     const ph = await probeBySerial(client, "PH-24-0101");
     const temp = await probeBySerial(client, "TS-24-0101");
     const effectiveAt = db.seedNow - 2 * DAY + 7 * 60_000 + 30_000; // mid-minute, two days back
@@ -101,21 +87,20 @@ describe("recomputing readings after a calibration", () => {
   }, 60_000);
 
   it("the live ingest applies a calibration and a hold saved mid-stream, from their effective times", async () => {
-    db = await createSeededDatabase({ label: "live-calibration" });
-    client = openDb(db);
+    const { db, client } = testDb;
     const broker = await startBroker(db);
     await startIngest(db, broker.url);
     const web = await connectMqtt(broker.url, serviceLogin("web", "recompute"));
     const since = Date.now();
     const sim = startSimulator(db, broker.url, ["--rate", "5", "--duration", "10"]);
-    await waitFor(() => countReadingsSince(client!, since), (n) => n > 200, { message: "the stream to start" });
+    await waitFor(() => countReadingsSince(client, since), (n) => n > 200, { message: "the stream to start" });
 
     // As the web does when a calibration is saved: the run, then recomputeFrom for what is
     // stored already, then the event. The ingest fixes what it writes meanwhile with the old view.
     const ph = await probeBySerial(client, "PH-24-0101");
     const effectiveAt = Date.now() - 1500; // readings from 1.5 s ago on were stored with the old run
     const runId = await insertPhRun(client, ph, effectiveAt, 96, -4);
-    await recomputeFrom(drizzle(client, { schema }), ph.id, effectiveAt);
+    await recomputeFrom(testDb.orm, ph.id, effectiveAt);
     // A hold is placed from now on: readings the ingest commits before it notices become held.
     const heldTank = await probeBySerial(client, "PH-24-0105");
     const placedAt = Date.now();
@@ -128,7 +113,7 @@ describe("recomputing readings after a calibration", () => {
     await web.publishAsync(topics.event(1), JSON.stringify(event("hold.placed", heldTank.tankId, 1)), { qos: 1 });
 
     const summary = await sim.done;
-    await waitFor(() => countReadingsSince(client!, since), (n) => n >= summary.samples, { message: "all readings" });
+    await waitFor(() => countReadingsSince(client, since), (n) => n >= summary.samples, { message: "all readings" });
     await sleep(2500); // the ingest's own recompute of what it wrote before it saw the change
 
     const runs = await client.execute({

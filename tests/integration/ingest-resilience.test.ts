@@ -1,22 +1,12 @@
 // Crashes and restarts mid-stream, with the real processes: the ingest killed with SIGKILL and
 // started again, and the broker restarted; afterwards every acknowledged sample is stored once.
-import { afterEach, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import type { Client } from "@libsql/client";
-import { createSeededDatabase, type TestDatabase } from "./helpers/database";
-import { stopAll } from "./helpers/processes";
-import { countReadingsSince, openDb, readIngestStats, rollupCountSince, startBroker, startIngest, startSimulator } from "./helpers/tidewell";
+import { countReadingsSince, readIngestStats, rollupCountSince, startBroker, startIngest, startSimulator } from "./helpers/tidewell";
+import { useTestDatabase } from "./helpers/use-test-database";
 import { sleep, waitFor } from "./helpers/wait";
 
-let db: TestDatabase | null = null;
-let client: Client | null = null;
-
-afterEach(async () => {
-  await stopAll();
-  client?.close();
-  db?.remove();
-  client = null;
-  db = null;
-});
+const testDb = useTestDatabase({ label: "resilience" });
 
 /** Exactly `expected` rows since `since`, and rollups that counted each of them once. */
 async function expectAllStoredOnce(c: Client, since: number, expected: number) {
@@ -29,14 +19,13 @@ async function expectAllStoredOnce(c: Client, since: number, expected: number) {
 
 describe("ingest resilience", () => {
   it("loses and duplicates nothing when the ingest is killed (SIGKILL) mid-stream and restarted", async () => {
-    db = await createSeededDatabase({ label: "kill" });
-    client = openDb(db);
+    const { db, client } = testDb;
     const broker = await startBroker(db);
     const ingest = await startIngest(db, broker.url);
     const since = Date.now();
     // 80 tanks at 5 Hz: 1,200 samples a second for 12 s.
     const sim = startSimulator(db, broker.url, ["--tanks", "80", "--rate", "5", "--duration", "12"]);
-    await waitFor(() => countReadingsSince(client!, since), (n) => n > 2000, { message: "the stream to start" });
+    await waitFor(() => countReadingsSince(client, since), (n) => n > 2000, { message: "the stream to start" });
     ingest.kill("SIGKILL");
     await ingest.exited;
     const atKill = await countReadingsSince(client, since);
@@ -52,13 +41,12 @@ describe("ingest resilience", () => {
   }, 120_000);
 
   it("loses nothing when the broker restarts mid-stream", async () => {
-    db = await createSeededDatabase({ label: "broker-restart" });
-    client = openDb(db);
+    const { db, client } = testDb;
     const broker = await startBroker(db);
     await startIngest(db, broker.url);
     const since = Date.now();
     const sim = startSimulator(db, broker.url, ["--tanks", "80", "--rate", "5", "--duration", "12"]);
-    await waitFor(() => countReadingsSince(client!, since), (n) => n > 2000, { message: "the stream to start" });
+    await waitFor(() => countReadingsSince(client, since), (n) => n > 2000, { message: "the stream to start" });
     // The simulator's clients queue QoS 1 messages while the broker is away and resend them;
     // the restarted broker has the ingest's session before it accepts any device.
     await broker.restart();
