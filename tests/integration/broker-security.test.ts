@@ -4,26 +4,20 @@
 import fs from "node:fs";
 import bcrypt from "bcryptjs";
 import { afterEach, describe, expect, it } from "vitest";
-import type { Client } from "@libsql/client";
 import type { MqttClient } from "mqtt";
 import { deviceClientId, SERVICE_ACCOUNTS } from "../../ingest/topics";
-import { createSeededDatabase, type TestDatabase } from "./helpers/database";
+import type { TestDatabase } from "./helpers/database";
 import { connectMqtt, endMqtt, serviceLogin } from "./helpers/mqtt";
-import { spawnTsx, stopAll } from "./helpers/processes";
-import { openDb, startBroker, startIngest } from "./helpers/tidewell";
+import { spawnTsx } from "./helpers/processes";
+import { startBroker, startIngest } from "./helpers/tidewell";
+import { useTestDatabase } from "./helpers/use-test-database";
 import { sleep } from "./helpers/wait";
 
-let db: TestDatabase | null = null;
-let client: Client | null = null;
+const testDb = useTestDatabase({ label: "broker-security" });
 const open: MqttClient[] = [];
 
-afterEach(async () => {
+afterEach(() => {
   for (const c of open.splice(0)) c.end(true);
-  await stopAll();
-  client?.close();
-  db?.remove();
-  client = null;
-  db = null;
 });
 
 function device(d: TestDatabase, controllerId: string) {
@@ -42,7 +36,7 @@ const closes = (c: MqttClient) => new Promise<void>((resolve) => c.once("close",
 
 describe("broker identities", () => {
   it("no process starts without its secrets, and says which to set", async () => {
-    db = await createSeededDatabase({ label: "nosecret" });
+    const { db } = testDb;
     const cases = [
       { script: "ingest/broker-main.ts", unset: "MQTT_SIMULATOR_PASSWORD" },
       { script: "ingest/main.ts", unset: "AUTH_SECRET" },
@@ -62,7 +56,7 @@ describe("broker identities", () => {
   }, 90_000);
 
   it("refuses the former fixed service passwords and accepts this installation's", async () => {
-    db = await createSeededDatabase({ label: "svcpass" });
+    const { db } = testDb;
     const broker = await startBroker(db);
     for (const [account, former] of [
       ["ingest", "tidewell-ingest-local"],
@@ -76,8 +70,7 @@ describe("broker identities", () => {
   }, 60_000);
 
   it("lets a device use only its own controller's client id, and no other farm take a live controller id", async () => {
-    db = await createSeededDatabase({ label: "clientid" });
-    client = openDb(db);
+    const { db, client } = testDb;
     const broker = await startBroker(db);
     // A controller of another organisation registered as "ctl-north", a prefix of ctl-north-l1.
     const org = await client.execute("INSERT INTO organisations (name) VALUES ('Elsewhere') RETURNING id");
@@ -109,7 +102,7 @@ describe("broker identities", () => {
   }, 60_000);
 
   it("keeps each service account to its own client ids, so none can disconnect the ingest", async () => {
-    db = await createSeededDatabase({ label: "svcid" });
+    const { db } = testDb;
     const broker = await startBroker(db);
     const ingest = await startIngest(db, broker.url);
     for (const account of ["web", "simulator"] as const) {
@@ -123,8 +116,7 @@ describe("broker identities", () => {
   }, 60_000);
 
   it("throttles a wrong-password flood per username and address, without locking out the real device", async () => {
-    db = await createSeededDatabase({ label: "flood" });
-    client = openDb(db);
+    const { db, client } = testDb;
     const broker = await startBroker(db);
     const real = device(db, "ctl-north-l1");
     // The real device connects once (its credentials are now cached), then drops off.
