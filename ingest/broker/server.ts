@@ -55,8 +55,9 @@ export async function startBroker(opts: BrokerOptions): Promise<RunningBroker> {
   const devicesByUsername = new Map<string, Set<Client>>();
   const directory = new DeviceDirectory(opts.db, { cacheTtlMs: opts.deviceCacheTtlMs, recheckMs: opts.deviceRecheckMs });
   const throttles = {
-    // A few checks from one address at a time (a farm's controllers may share one), one per username.
-    byAddress: new ConnectThrottle({ ...DEFAULT_THROTTLE, freeFailures: opts.failedConnectsPerAddress, concurrent: 2 }),
+    // Up to 8 checks from one address at once (a farm's controllers may share one and all reconnect
+    // after a broker restart), one per username: a burst costs at most the free failures plus 8.
+    byAddress: new ConnectThrottle({ ...DEFAULT_THROTTLE, freeFailures: opts.failedConnectsPerAddress, concurrent: 8 }),
     byUsername: new ConnectThrottle({ ...DEFAULT_THROTTLE, freeFailures: opts.failedConnectsPerUsername, concurrent: 1 }),
   };
   const ingestId = ingestClientId();
