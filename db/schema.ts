@@ -237,6 +237,24 @@ export const rollups = sqliteTable(
   (t) => [primaryKey({ columns: [t.probeId, t.minute] })],
 );
 
+// The same summaries per hour, kept with the minute ones (by the ingest and recomputeFrom), so
+// a month or a year of history reads hundreds of rows per probe, not tens of thousands. The
+// migration creates it WITHOUT ROWID (drizzle has no option for it): a probe's hours then sit
+// together in the primary key's b-tree, so a range is one sequential read and an upsert
+// touches one b-tree, not a table and its index.
+export const rollupsHourly = sqliteTable(
+  "rollups_hourly",
+  {
+    probeId: integer("probe_id").notNull(),
+    hour: integer("hour").notNull(), // ms epoch of the hour start
+    min: real("min").notNull(),
+    max: real("max").notNull(),
+    sum: real("sum").notNull(),
+    count: integer("count").notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.probeId, t.hour] })],
+);
+
 export const holds = sqliteTable(
   "holds",
   {
@@ -422,6 +440,15 @@ export const workerStatus = sqliteTable("worker_status", {
   name: text("name").primaryKey(),
   updatedAt: integer("updated_at").notNull(),
   stats: text("stats", { mode: "json" }).$type<Record<string, unknown>>().notNull(),
+});
+
+// A lease held by one process among several (the alert runner when ingest workers share one
+// broker subscription): whoever holds an unexpired lease does the job; `cursor` is how far it got.
+export const leases = sqliteTable("leases", {
+  name: text("name").primaryKey(),
+  holder: text("holder").notNull(),
+  expiresAt: integer("expires_at").notNull(),
+  cursor: integer("cursor").notNull().default(0),
 });
 
 // Alert engine state per probe/tank, persisted so restarts do not fire twice.

@@ -8,8 +8,11 @@
 // and counted (hookErrors in the health snapshot), never retried. `stop` runs on shutdown.
 //
 // The alert engine (ingest/alerts) is the plug-in: every committed batch goes through the rules.
+// When several workers share the broker subscription (`electedAs` set), one of them, elected by
+// a lease, runs the alerts over every worker's committed rows instead (ingest/alerts/elected.ts).
 import type { Db } from "../db/client";
-import { startAlerts } from "./alerts/wire";
+import { startElectedAlerts } from "./alerts/elected";
+import { fromEnv, startAlerts } from "./alerts/wire";
 import type { CalibratedReading } from "./payloads";
 
 export interface CommittedReading extends CalibratedReading {
@@ -20,6 +23,8 @@ export interface HookContext {
   db: Db;
   /** Publishes as svc-ingest (QoS 1 resolves on the broker's PUBACK; queued while offline). */
   publish(topic: string, payload: string, opts: { qos: 0 | 1; retain: boolean }): Promise<unknown>;
+  /** Set when this is one of several workers: the unique name this process competes for the alert lease with. */
+  electedAs?: string;
 }
 
 export interface IngestHooks {
@@ -29,4 +34,14 @@ export interface IngestHooks {
 
 export type HooksFactory = (ctx: HookContext) => IngestHooks;
 
-export const createHooks: HooksFactory = (ctx) => startAlerts(ctx);
+export const createHooks: HooksFactory = (ctx) =>
+  ctx.electedAs
+    ? startElectedAlerts({
+        db: ctx.db,
+        publish: ctx.publish,
+        holder: ctx.electedAs,
+        leaseMs: fromEnv("ALERTS_LEASE_MS"),
+        tickMs: fromEnv("ALERTS_TICK_MS"),
+        resolveAfterMs: fromEnv("ALERTS_RESOLVE_AFTER_MS"),
+      })
+    : startAlerts(ctx);

@@ -65,12 +65,18 @@ const pipeline = new Pipeline({
 });
 const refresher = new Refresher({ db: getDb(), registry, calibrations, holds, pipeline, log });
 
+// One of several workers: a shared subscription, a session of its own, an elected alert runner.
+const shared = config.sharedGroup;
+const clientId = shared ? (process.env.MQTT_INGEST_CLIENT_ID ?? `tidewell-ingest-${config.workerName}`) : ingestClientId();
+if (shared) log.info(`worker ${config.workerName} of shared group ${shared} (client id ${clientId})`);
+
 session = openIngestSession({
   url: mqttUrl(),
-  clientId: ingestClientId(),
+  clientId,
   username: SERVICE_ACCOUNTS.ingest.username,
   password: SERVICE_ACCOUNTS.ingest.password(),
-  rawFilter: topics.rawWildcard,
+  rawFilter: shared ? topics.sharedRaw(shared) : topics.rawWildcard,
+  mqtt5SessionExpirySeconds: shared ? config.sessionExpirySeconds : undefined,
   isRawTopic: (topic) => controllerOfRawTopic(topic) !== null,
   otherFilters: [topics.eventWildcard],
   onRaw: (topic, payload, ack) => pipeline.accept(topic, payload, ack),
@@ -90,6 +96,7 @@ session = openIngestSession({
 hooks = createHooks({
   db: getDb(),
   publish: (topic, payload, opts) => session!.client.publishAsync(topic, payload, opts),
+  electedAs: shared ? `${config.workerName}:${process.pid}:${Date.now().toString(36)}` : undefined,
 });
 refresher.start(config.refreshMs);
 
@@ -128,9 +135,11 @@ for (const signal of ["SIGTERM", "SIGINT"] as const) {
     if (retentionTimer) clearTimeout(retentionTimer);
     refresher.stop();
     hooks?.stop?.();
-    pipeline
-      .flush()
-      .then(() => session?.close())
+    // In a shared group a stopping worker first leaves it, so the others take its share at once,
+    // then commits and acknowledges what it holds, and ends its session (nothing is queued for it).
+    (shared ? session!.unsubscribeRaw().catch((err: unknown) => log.warn(`could not leave the shared group: ${errorText(err)}`)) : Promise.resolve())
+      .then(() => pipeline.flush())
+      .then(() => session?.close(shared !== null))
       .then(() => {
         log.info("stopped");
         process.exit(0);

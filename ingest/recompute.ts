@@ -1,7 +1,7 @@
 // recomputeFrom: after a calibration is saved (or withdrawn) with an effective time in the
 // past, every stored reading of the probe from that time on is corrected again from its raw
-// signal, exactly as the ingest would correct it now, and the rollups of those minutes are
-// rebuilt from the raw rows. Safe to run while the ingest writes: each page and each rollup
+// signal, exactly as the ingest would correct it now, and the rollups of those minutes (and
+// hours) are rebuilt from the raw rows. Safe to run while the ingest writes: each page and each rollup
 // range is its own transaction, and a rebuilt minute includes every row committed before it.
 import { sql } from "drizzle-orm";
 import { z } from "zod";
@@ -11,13 +11,17 @@ import { ACCEPTED_RUNS_SQL, buildRuns, runInForce } from "./worker/calibrations"
 import { PHYSICAL_RANGES } from "../lib/alerts/ranges";
 import { correct } from "./worker/correct";
 import { groupHolds, isHeld } from "./worker/holds";
-import { MINUTE_MS, minuteOf } from "./worker/rollups";
+import { HOUR_MS, hourOf, MINUTE_MS, minuteOf } from "./worker/rollups";
 
 const PAGE = 2000;
 // Only physically possible temperatures compensate pH and EC (as in the live ingest).
 const TEMP = PHYSICAL_RANGES.temp;
 const UPDATE_CHUNK = 400; // 4 parameters a row
-const ROLLUP_SPAN_MS = 6 * 3_600_000; // rollups are rebuilt six hours per transaction
+const ROLLUP_SPAN_MS = 6 * 3_600_000; // rollups are rebuilt six whole hours per transaction
+
+// Inlined, not bound: the client binds JS numbers as REAL, which would make the division fractional.
+const MINUTE = sql.raw(String(MINUTE_MS));
+const HOUR = sql.raw(String(HOUR_MS));
 
 const probeRow = z.object({
   id: z.number().int(),
@@ -140,6 +144,8 @@ async function temperaturesFor(db: Db, probeIds: number[], from: number, to: num
 /**
  * Rebuilds the probe's rollups from raw rows, from the minute of `fromTs` (or of the first raw
  * row after it, where retention already removed older raw rows: those rollups are kept as they are).
+ * Spans are whole hours, and each span's hourly rollups are rebuilt from its minute rollups in
+ * the same transaction, so the two resolutions always agree.
  */
 async function rebuildRollups(db: Db, probeId: number, fromTs: number): Promise<number> {
   const first = z
@@ -147,19 +153,29 @@ async function rebuildRollups(db: Db, probeId: number, fromTs: number): Promise<
     .parse(await db.get(sql`SELECT min(ts) AS first, max(ts) AS last FROM readings WHERE probe_id = ${probeId} AND ts >= ${minuteOf(fromTs)}`));
   if (first.first === null || first.last === null) return 0;
   let minutes = 0;
-  const end = minuteOf(first.last) + MINUTE_MS;
-  for (let from = minuteOf(first.first); from < end; from += ROLLUP_SPAN_MS) {
-    const to = Math.min(end, from + ROLLUP_SPAN_MS);
+  const end = hourOf(first.last) + HOUR_MS;
+  const start = minuteOf(first.first);
+  for (let from = start; from < end; from = hourOf(from) + ROLLUP_SPAN_MS) {
+    const to = Math.min(end, hourOf(from) + ROLLUP_SPAN_MS);
     const last = to >= end; // the open end also takes rows committed while we worked
     await db.transaction(async (tx) => {
       const upper = last ? sql`` : sql`AND minute < ${to}`;
       const upperTs = last ? sql`` : sql`AND ts < ${to}`;
       await tx.run(sql`DELETE FROM rollups WHERE probe_id = ${probeId} AND minute >= ${from} ${upper}`);
       const rs = await tx.run(sql`INSERT INTO rollups (probe_id, minute, min, max, sum, count)
-        SELECT probe_id, (ts / ${MINUTE_MS}) * ${MINUTE_MS}, min(value), max(value), sum(value), count(value)
+        SELECT probe_id, (ts / ${MINUTE}) * ${MINUTE}, min(value), max(value), sum(value), count(value)
           FROM readings WHERE probe_id = ${probeId} AND ts >= ${from} ${upperTs} AND value IS NOT NULL
-         GROUP BY probe_id, (ts / ${MINUTE_MS})`);
+         GROUP BY probe_id, (ts / ${MINUTE})`);
       minutes += rs.rowsAffected;
+      // The hours this span touches, whole (an hour's older minutes are kept rollups).
+      const hourFrom = hourOf(from);
+      const upperHour = last ? sql`` : sql`AND hour < ${to}`;
+      const upperMinute = last ? sql`` : sql`AND minute < ${to}`;
+      await tx.run(sql`DELETE FROM rollups_hourly WHERE probe_id = ${probeId} AND hour >= ${hourFrom} ${upperHour}`);
+      await tx.run(sql`INSERT INTO rollups_hourly (probe_id, hour, min, max, sum, count)
+        SELECT probe_id, (minute / ${HOUR}) * ${HOUR}, min(min), max(max), sum(sum), sum(count)
+          FROM rollups WHERE probe_id = ${probeId} AND minute >= ${hourFrom} ${upperMinute}
+         GROUP BY probe_id, (minute / ${HOUR})`);
     });
   }
   return minutes;

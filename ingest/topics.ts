@@ -14,6 +14,8 @@ export const TOPIC_ROOT = "tw/v1";
 export const topics = {
   raw: (controllerId: string) => `${TOPIC_ROOT}/dev/${controllerId}/raw`,
   rawWildcard: `${TOPIC_ROOT}/dev/+/raw`,
+  /** The raw topics as an MQTT 5 shared subscription: each message goes to one worker of the group. */
+  sharedRaw: (group: string) => `$share/${group}/${TOPIC_ROOT}/dev/+/raw`,
   dosingCommand: (controllerId: string) => `${TOPIC_ROOT}/dev/${controllerId}/cmd/dosing`,
   /** Every command topic of one controller (what a device subscribes to). */
   commandWildcard: (controllerId: string) => `${TOPIC_ROOT}/dev/${controllerId}/cmd/#`,

@@ -2,10 +2,11 @@
 import Link from "next/link";
 import { useState } from "react";
 import { Button } from "@/components/ui/button";
-import { BUFFERS, BUFFER_IDS, EC_STANDARD_IDS, EC_STANDARD_LABELS } from "@/lib/calibration";
+import { BUFFERS, BUFFER_IDS, EC_STANDARD_IDS, EC_STANDARD_LABELS, readBufferTableRows, type BufferTableRow } from "@/lib/calibration";
 import { ApiRefusal, api } from "./api";
 import { toLocalInput, type ProbeOption } from "./probe-options";
 import { FIELD_CLASS, ProbeSelect } from "./probe-select";
+import { BufferTableEditor, CERTIFICATE_TABLE, newBufferTableRows } from "./buffer-table-editor";
 
 const field = FIELD_CLASS;
 const HYDRO_STANDARD = JSON.stringify({ ec25UsPerCm: 2770, alphaPerC: 0.019 });
@@ -15,7 +16,11 @@ interface StandardRow {
   lot: string;
   expiresOn: string;
   tempC: string;
+  /** The certificate table, when `standard` is CERTIFICATE_TABLE. */
+  table: BufferTableRow[];
 }
+
+const newRow = (standard: string): StandardRow => ({ standard, lot: "", expiresOn: "", tempC: "", table: newBufferTableRows() });
 
 export function ManualEntryForm({ probes, now }: { probes: ProbeOption[]; now: number }) {
   const [probeId, setProbeId] = useState(probes[0]?.id);
@@ -24,7 +29,8 @@ export function ManualEntryForm({ probes, now }: { probes: ProbeOption[]; now: n
   const [slope, setSlope] = useState("");
   const [offset, setOffset] = useState("");
   const [cellK, setCellK] = useState("");
-  const [rows, setRows] = useState<StandardRow[]>([{ standard: "tech-7.00", lot: "", expiresOn: "", tempC: "" }]);
+  const [rows, setRows] = useState<StandardRow[]>([newRow("tech-7.00")]);
+  const [tableErrors, setTableErrors] = useState<Record<string, string>[]>([]);
   const [note, setNote] = useState("");
   const [file, setFile] = useState<File | null>(null);
   const [error, setError] = useState<ApiRefusal | null>(null);
@@ -34,8 +40,17 @@ export function ManualEntryForm({ probes, now }: { probes: ProbeOption[]; now: n
 
   const submit = async () => {
     if (!probe) return;
-    setBusy(true);
     setError(null);
+    const checks = rows.map((r) => (probe.kind === "ph" && r.standard === CERTIFICATE_TABLE ? readBufferTableRows(r.table) : null));
+    setTableErrors(checks.map((c) => (c && !c.ok ? c.fields : {})));
+    const bad = checks.findIndex((c) => c && !c.ok);
+    if (bad >= 0) {
+      const c = checks[bad];
+      setError(new ApiRefusal(`Buffer ${bad + 1}: ${c && !c.ok ? c.message : ""}`, 400));
+      return;
+    }
+    const standardText = (r: StandardRow, i: number) => (probe.kind === "ph" && r.standard === CERTIFICATE_TABLE ? (checks[i] as { text: string }).text : r.standard);
+    setBusy(true);
     try {
       let uploadId: number | undefined;
       if (file) {
@@ -50,13 +65,14 @@ export function ManualEntryForm({ probes, now }: { probes: ProbeOption[]; now: n
           probeId: probe.id,
           performedAt: new Date(performedAt).getTime(),
           ...(probe.kind === "ph" ? { slopePct: num(slope), offsetMv: num(offset) } : { cellConstant: num(cellK) }),
-          standards: rows.map((r) => ({ standard: r.standard, lot: r.lot, expiresOn: r.expiresOn, tempC: num(r.tempC) })),
+          standards: rows.map((r, i) => ({ standard: standardText(r, i), lot: r.lot, expiresOn: r.expiresOn, tempC: num(r.tempC) })),
           note: note || undefined,
           uploadId,
         },
       });
       setSaved(r.run);
     } catch (e) {
+      if (e instanceof ApiRefusal) setTableErrors(rows.map((_, i): Record<string, string> => (e.fields[`standards.${i}.standard`] ? { _: e.fields[`standards.${i}.standard`] } : {})));
       setError(e instanceof ApiRefusal ? e : new ApiRefusal("The calibration could not be saved.", 500));
     } finally {
       setBusy(false);
@@ -115,21 +131,27 @@ export function ManualEntryForm({ probes, now }: { probes: ProbeOption[]; now: n
       <fieldset className="space-y-3">
         <legend className="text-sm font-semibold">{probe?.kind === "ec" ? "Standard used" : "Buffers used"}, with their lots</legend>
         {rows.map((r, i) => (
-          <div key={i} className="grid gap-2 rounded-md border border-paper-line p-3 sm:grid-cols-[2fr_1fr_1fr_6rem]">
+          <div key={i} className="grid gap-2 rounded-md border border-paper-line p-3 sm:grid-cols-[2fr_1fr_1fr_6rem]" data-standard-row={i}>
             <select aria-label="Buffer or standard" className={field} value={r.standard} onChange={(e) => setRows(rows.map((x, j) => (j === i ? { ...x, standard: e.target.value } : x)))}>
               {options.map(([id, label]) => (
                 <option key={id} value={id}>
                   {label}
                 </option>
               ))}
+              {probe?.kind === "ph" ? <option value={CERTIFICATE_TABLE}>Own table from a certificate</option> : null}
             </select>
             <input aria-label="Lot" placeholder="Lot" className={field} value={r.lot} onChange={(e) => setRows(rows.map((x, j) => (j === i ? { ...x, lot: e.target.value } : x)))} />
             <input aria-label="Expiry date" type="date" className={field} value={r.expiresOn} onChange={(e) => setRows(rows.map((x, j) => (j === i ? { ...x, expiresOn: e.target.value } : x)))} />
             <input aria-label="Temperature °C" placeholder="°C" inputMode="decimal" className={field} value={r.tempC} onChange={(e) => setRows(rows.map((x, j) => (j === i ? { ...x, tempC: e.target.value } : x)))} />
+            {probe?.kind === "ph" && r.standard === CERTIFICATE_TABLE ? (
+              <div className="sm:col-span-4">
+                <BufferTableEditor name={`Buffer ${i + 1}`} rows={r.table} errors={tableErrors[i]} onChange={(table) => setRows(rows.map((x, j) => (j === i ? { ...x, table } : x)))} />
+              </div>
+            ) : null}
           </div>
         ))}
         {probe?.kind === "ph" && rows.length < 3 ? (
-          <Button type="button" variant="secondary" size="sm" onClick={() => setRows([...rows, { standard: rows.length === 1 ? "tech-4.01" : "tech-10.01", lot: "", expiresOn: "", tempC: "" }])}>
+          <Button type="button" variant="secondary" size="sm" onClick={() => setRows([...rows, newRow(rows.length === 1 ? "tech-4.01" : "tech-10.01")])}>
             Add a buffer
           </Button>
         ) : null}

@@ -11,6 +11,7 @@ import { bufferPh, ecStandardAt, parseStandardText, standardLabel, type BufferSp
 import { formatDateTime } from "@/lib/display/time";
 import { ApiRefusal, api } from "./api";
 import { CaptureForm } from "./capture-form";
+import { EffectiveTimeField } from "./effective-time-field";
 import { LiveReading, useLive } from "./live-reading";
 import { FitSummary } from "./run-result";
 import { RunStepsList, stepTitle } from "./run-steps-list";
@@ -142,6 +143,8 @@ function CleanStep({ view, canChange }: { view: RunViewJson; canChange: boolean 
 
 function ResultStep({ view, canChange }: { view: RunViewJson; canChange: boolean }) {
   const action = useRunAction(view.run.id);
+  const [effectiveAt, setEffectiveAt] = useState<number | null>(null);
+  const effectiveError = action.error instanceof ApiRefusal ? action.error.fields.effectiveAt : undefined;
   const preview = view.preview;
   if (!preview) return null;
   if ("error" in preview) {
@@ -163,9 +166,15 @@ function ResultStep({ view, canChange }: { view: RunViewJson; canChange: boolean
           <TriangleAlert className="size-4" aria-hidden /> The last run on this probe was rejected too: recording this rejection marks the probe for replacement.
         </p>
       ) : null}
+      {canChange && accepted ? <EffectiveTimeField value={effectiveAt} onChange={setEffectiveAt} error={effectiveError} /> : null}
       {canChange ? (
         <div className="flex flex-wrap gap-3">
-          <Button size="lg" variant={accepted ? "primary" : "danger"} onClick={() => action.mutate({ path: "complete" })} disabled={action.isPending}>
+          <Button
+            size="lg"
+            variant={accepted ? "primary" : "danger"}
+            onClick={() => action.mutate({ path: "complete", json: accepted && effectiveAt !== null ? { effectiveAt } : {} })}
+            disabled={action.isPending || (effectiveAt !== null && Number.isNaN(effectiveAt))}
+          >
             {accepted ? "Save calibration" : "Record the rejection"}
           </Button>
           <AbandonButton runId={view.run.id} />

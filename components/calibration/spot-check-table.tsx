@@ -2,11 +2,13 @@ import { CircleCheck, TriangleAlert } from "lucide-react";
 import type { spotChecks } from "@/db/schema";
 import { formatDateTime } from "@/lib/display/time";
 import { formatEc, ecUnitLabel, type EcUnit } from "@/lib/display/units";
+import { SpotCheckRowActions } from "./spot-check-row-actions";
 
 type Row = typeof spotChecks.$inferSelect;
 
-/** Handheld readings against Tidewell's; a difference past the tank's tolerance is called out. */
-export function SpotCheckTable({ rows, kind, tolerance, ecUnit }: { rows: Row[]; kind: "ph" | "ec" | "temp"; tolerance: number; ecUnit: EcUnit }) {
+/** Handheld readings against Tidewell's; a difference past the tank's tolerance is called out. Growers and owners can correct or delete a row. */
+export function SpotCheckTable({ rows, kind, tolerance, ecUnit, canChange = false }: { rows: Row[]; kind: "ph" | "ec" | "temp"; tolerance: number; ecUnit: EcUnit; canChange?: boolean }) {
+  const editable = canChange && kind !== "temp";
   const show = (v: number | null) => (v === null ? "—" : kind === "ph" ? v.toFixed(2) : formatEc(v, ecUnit));
   const unit = kind === "ph" ? "pH" : ecUnitLabel(ecUnit);
   if (rows.length === 0) return <p className="text-sm text-ink-soft">No spot checks yet.</p>;
@@ -19,11 +21,16 @@ export function SpotCheckTable({ rows, kind, tolerance, ecUnit }: { rows: Row[];
           <th className="py-2 pr-3">Tidewell ({unit})</th>
           <th className="py-2 pr-3">Difference</th>
           <th className="py-2">Verdict (tolerance ±{kind === "ph" ? tolerance.toFixed(2) : formatEc(tolerance, ecUnit)})</th>
+          {editable ? (
+            <th className="py-2">
+              <span className="sr-only">Correct or delete</span>
+            </th>
+          ) : null}
         </tr>
       </thead>
       <tbody>
         {rows.map((r) => (
-          <tr key={r.id} data-past-tolerance={r.pastTolerance} className="border-b border-paper-line last:border-0">
+          <tr key={r.id} data-spot-check={r.id} data-past-tolerance={r.pastTolerance} className="border-b border-paper-line last:border-0">
             <td className="num py-2 pr-3">{formatDateTime(r.takenAt)}</td>
             <td className="num py-2 pr-3">{show(r.meterValue)}</td>
             <td className="num py-2 pr-3">{show(r.tidewellValue)}</td>
@@ -40,7 +47,13 @@ export function SpotCheckTable({ rows, kind, tolerance, ecUnit }: { rows: Row[];
                   <CircleCheck className="size-4" aria-hidden /> Within tolerance
                 </span>
               )}
+              {r.note ? <span className="block text-xs text-ink-soft">{r.note}</span> : null}
             </td>
+            {editable ? (
+              <td className="py-1">
+                <SpotCheckRowActions row={{ id: r.id, takenAt: r.takenAt, meterValue: r.meterValue, note: r.note }} kind={kind === "ec" ? "ec" : "ph"} ecUnit={ecUnit} />
+              </td>
+            ) : null}
           </tr>
         ))}
       </tbody>

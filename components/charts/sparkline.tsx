@@ -1,6 +1,8 @@
-// A small trend line of the last half hour: min–max envelope and mean per bucket, with the target
-// band shaded behind it so a drift towards the edge is visible before it crosses.
+// A small trend line of the last few hours: min–max envelope and mean per bucket, with the target
+// band shaded behind it where it is in view. The y-range fits the data (lib/display/spark-range),
+// so a slow drift shows as a slope, and a band edge it approaches comes into view.
 import type { Buckets } from "@/lib/display/downsample";
+import { sparkRange } from "@/lib/display/spark-range";
 
 const W = 120;
 const H = 32;
@@ -12,6 +14,7 @@ export function Sparkline({
   band,
   label,
   convert = (v) => v,
+  minSpan,
   large = false,
 }: {
   buckets: Buckets | undefined;
@@ -20,21 +23,14 @@ export function Sparkline({
   band: [number, number];
   label: string;
   convert?: (v: number) => number;
+  /** Smallest y-span shown, in display units (lib/display/spark-range SPARK_MIN_SPAN). */
+  minSpan: number;
   large?: boolean;
 }) {
   const n = buckets?.t.length ?? 0;
   const lo = convert(band[0]);
   const hi = convert(band[1]);
-  let yMin = lo;
-  let yMax = hi;
-  for (let i = 0; i < n; i++) {
-    yMin = Math.min(yMin, convert(buckets!.min[i]));
-    yMax = Math.max(yMax, convert(buckets!.max[i]));
-  }
-  // Room above and below the band, so "in band" reads as a line inside a shaded strip.
-  const pad = (yMax - yMin) * 0.4 || 1;
-  yMin -= pad;
-  yMax += pad;
+  const [yMin, yMax] = sparkRange({ min: (buckets?.min ?? []).map(convert), max: (buckets?.max ?? []).map(convert), band: [lo, hi], minSpan });
   const x = (t: number) => ((t - from) / Math.max(1, to - from)) * W;
   const y = (v: number) => H - ((v - yMin) / (yMax - yMin)) * H;
   const half = (buckets?.bucketMs ?? 0) / 2;
@@ -65,7 +61,7 @@ export function Sparkline({
   return (
     <div className="relative">
     <svg viewBox={`0 0 ${W} ${H}`} preserveAspectRatio="none" className={large ? "block h-12 w-full overflow-visible" : "block h-8 w-full overflow-visible"} role="img" aria-label={label} data-sparkline={n}>
-      <rect x={0} width={W} y={y(hi)} height={Math.max(0.5, y(lo) - y(hi))} className="fill-accent-100" />
+      {hi > yMin && lo < yMax ? <rect x={0} width={W} y={Math.max(0, y(hi))} height={Math.max(0.5, Math.min(H, y(lo)) - Math.max(0, y(hi)))} className="fill-accent-100" /> : null}
       {envelopes.map((points, i) => (
         <polygon key={`e${i}`} points={points} className="fill-ink/10" />
       ))}

@@ -33,6 +33,7 @@ export async function fetchSeries(tankId: number, from: number, to: number, poin
   return { ...series, rolling };
 }
 
-/** The wall's trend sparklines: the last half hour in 20-second buckets. */
-export const SPARK_WINDOW_MS = 30 * 60_000;
-export const SPARK_POINTS = 90;
+/** The wall's trend sparklines: the last 4 hours in 4-minute buckets, long enough to see a trend. */
+export const SPARK_WINDOW_MS = 4 * 60 * 60_000;
+export const SPARK_POINTS = 60;
+export const SPARK_WINDOW_LABEL = "4 hours";

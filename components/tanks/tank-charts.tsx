@@ -85,7 +85,7 @@ export function TankCharts({ tankId, ecUnit, renderedAt }: { tankId: number; ecU
         </div>
         <p className="num text-xs text-ink-faint" data-testid="series-meta">
           {data
-            ? `${data.source === "rollups" ? "per-minute summaries" : "raw readings"} · one point per ${formatBucket(data.bucketMs)}${query.isFetching ? " · updating…" : ""}`
+            ? `${data.source === "hourly-rollups" ? "hourly summaries" : data.source === "rollups" ? "per-minute summaries" : "raw readings"} · one point per ${formatBucket(data.bucketMs)}${query.isFetching ? " · updating…" : ""}`
             : query.isError
               ? ""
               : "loading…"}
@@ -164,5 +164,6 @@ function ChartStack({ data, ecUnit }: { data: CachedSeries; ecUnit: EcUnit }) {
 
 function formatBucket(ms: number) {
   if (ms < 60_000) return `${ms / 1000} s`;
+  if (ms % 3_600_000 === 0) return `${ms / 3_600_000} h`; // hourly buckets: "6 h", not "6 h 0 min"
   return formatDuration(ms);
 }

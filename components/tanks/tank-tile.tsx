@@ -10,6 +10,8 @@ import { BandGauge } from "./band-gauge";
 import { cn } from "@/components/ui/cn";
 import { TankTileActions } from "@/components/incidents/tank-tile-actions";
 import { Sparkline } from "@/components/charts/sparkline";
+import { SPARK_MIN_SPAN } from "@/lib/display/spark-range";
+import { SPARK_WINDOW_LABEL } from "@/components/live/queries";
 import type { TankSeries } from "@/app/api/tanks/[id]/series/load-series";
 
 export const STALE_AFTER_MS = 2 * 60_000;
@@ -117,7 +119,8 @@ export function TankTile({
                     to={spark.to}
                     band={[m.min, m.max]}
                     convert={m.kind === "ec" ? (v) => ecInUnit(v, ecUnit) : undefined}
-                    label={`${MEASURE_SHORT[m.kind]} over the last 30 minutes`}
+                    minSpan={m.kind === "ph" ? SPARK_MIN_SPAN.ph : m.kind === "temp" ? SPARK_MIN_SPAN.temp : ecInUnit(SPARK_MIN_SPAN.ecMsPerCm * 1000, ecUnit)}
+                    label={`${MEASURE_SHORT[m.kind]} over the last ${SPARK_WINDOW_LABEL}`}
                     large={wall}
                   />
                 </div>

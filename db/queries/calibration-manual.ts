@@ -3,7 +3,7 @@
 import { and, eq } from "drizzle-orm";
 import type { Db } from "../client";
 import { calibrationPoints, calibrationRuns, uploads } from "../schema";
-import { EC_ACCEPTANCE, bufferPh, ecStandardAt, judgePhCalibration, parseStandardText, type BufferSpec, type EcStandardSpec } from "../../lib/calibration";
+import { EC_ACCEPTANCE, bufferPh, bufferTableProblem, ecStandardAt, judgePhCalibration, parseStandardText, type BufferSpec, type EcStandardSpec } from "../../lib/calibration";
 import { unprocessable } from "../../app/_server/errors";
 import { audit } from "./audit";
 import { asUnprocessable, checkExpiry, type Actor } from "./calibration-runs";
@@ -48,9 +48,11 @@ export async function createManualCalibration(db: Db, user: Actor, input: Manual
     const what = `Cell constant ${input.cellConstant.toPrecision(4)} /cm is ${Math.abs(deviationPct).toFixed(1)} % ${deviationPct >= 0 ? "above" : "below"} the nominal ${nominal} /cm (limit ±${EC_ACCEPTANCE.maxDeviationPct} %)`;
     reasons = [verdict === "accepted" ? what : `${what}: clean the probe and retry in fresh standard`];
   }
-  const expected = input.standards.map((s) => {
+  const expected = input.standards.map((s, i) => {
     const t = s.tempC ?? 25;
     const spec = parseStandardText(s.standard);
+    const tableProblem = probe.kind === "ph" ? bufferTableProblem(spec) : null;
+    if (tableProblem) throw unprocessable(tableProblem, { [`standards.${i}.standard`]: tableProblem });
     return asUnprocessable(() => (probe.kind === "ph" ? bufferPh(spec as BufferSpec, t) : ecStandardAt(spec as EcStandardSpec, t)));
   });
 

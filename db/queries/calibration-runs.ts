@@ -9,6 +9,7 @@ import {
   CalibrationInputError,
   EC_STANDARD_IDS,
   bufferPh,
+  bufferTableProblem,
   ecFromConductance,
   ecStandardAt,
   fitEc,
@@ -25,6 +26,7 @@ import { audit, type Tx } from "./audit";
 import { DEFAULT_HOLD_MINUTES, placeHold } from "./holds";
 import { calibrationInForce, probeInOrg, runInOrg, utcDay, type ProbeRow, type RunRow } from "./calibration-scope";
 import { latestTemperature, liveSnapshot } from "./calibration-live";
+import { recomputeFrom, type RecomputeResult } from "../../ingest/recompute";
 
 export interface Actor {
   id: number;
@@ -53,14 +55,16 @@ function checkStandards(kind: ProbeRow["kind"], standards: readonly string[]) {
   if (standards.length < 1 || standards.length > max) {
     throw unprocessable(kind === "ph" ? "A pH run takes 1 to 3 buffers." : "An EC run takes one conductivity standard.");
   }
-  for (const s of standards) {
+  standards.forEach((s, i) => {
     const spec = parseStandardText(s);
     const known = kind === "ph" ? (BUFFER_IDS as readonly string[]) : (EC_STANDARD_IDS as readonly string[]);
     if (typeof spec === "string" && !known.includes(spec)) throw unprocessable(`"${s}" is not a ${kind === "ph" ? "pH buffer" : "conductivity standard"} Tidewell knows.`);
     if (typeof spec === "object") {
+      const tableProblem = kind === "ph" ? bufferTableProblem(spec) : null;
+      if (tableProblem) throw unprocessable(tableProblem, { [`standards.${i}`]: tableProblem });
       asUnprocessable(() => (kind === "ph" ? bufferPh(spec as BufferSpec, (spec as { points: [number, number][] }).points?.[0]?.[0] ?? 25) : ecStandardAt(spec as EcStandardSpec, 25)));
     }
-  }
+  });
   if (new Set(standards).size !== standards.length) throw unprocessable("Each buffer can be used once in a run; choose different buffers, for example pH 7 then pH 4.");
 }
 
@@ -336,6 +340,33 @@ export interface SavedRun {
   run: RunRow;
   fit: Fit;
   probeMarkedForReplacement: boolean;
+  /** Readings corrected again when the calibration took effect before now (null otherwise). */
+  recomputed: RecomputeResult | null;
+}
+
+export interface CompleteRunInput {
+  note?: string;
+  /**
+   * When the calibration was really done, for a run entered late; defaults to now. Not in the
+   * future and after the probe's previous accepted calibration; readings since are corrected again.
+   */
+  effectiveAt?: number;
+}
+
+/** Refuses an effective time in the future, before the probe was installed, or not after its previous accepted calibration. */
+async function checkEffectiveAt(db: Db, probe: ProbeRow, runId: number, effectiveAt: number, now: number) {
+  if (effectiveAt > now) throw unprocessable("The calibration time is in the future.", { effectiveAt: "Not in the future: enter when the run was done" });
+  if (effectiveAt < probe.installedAt) throw unprocessable("The calibration time is before the probe was installed.", { effectiveAt: "Before the probe was installed; check the date" });
+  const [previous] = await db
+    .select({ effectiveAt: calibrationRuns.effectiveAt })
+    .from(calibrationRuns)
+    .where(and(eq(calibrationRuns.probeId, probe.id), eq(calibrationRuns.status, "accepted"), ne(calibrationRuns.id, runId)))
+    .orderBy(desc(calibrationRuns.effectiveAt))
+    .limit(1);
+  if (previous?.effectiveAt != null && effectiveAt <= previous.effectiveAt) {
+    const when = new Date(previous.effectiveAt).toISOString().slice(0, 16).replace("T", " ");
+    throw unprocessable(`The probe's previous accepted calibration is from ${when} UTC; this run must take effect after it.`, { effectiveAt: `After the previous accepted calibration (${when} UTC)` });
+  }
 }
 
 /**
@@ -343,15 +374,17 @@ export interface SavedRun {
  * ingest corrects readings with it from then on. Rejected: a second rejection in a row marks the
  * probe for replacement.
  */
-export async function completeRun(db: Db, user: Actor, runId: number, input: { note?: string }, now = Date.now()): Promise<SavedRun> {
+export async function completeRun(db: Db, user: Actor, runId: number, input: CompleteRunInput, now = Date.now()): Promise<SavedRun> {
   const { run, probe } = await inProgress(db, user.orgId, runId);
+  const effectiveAt = input.effectiveAt ?? now;
+  if (input.effectiveAt !== undefined) await checkEffectiveAt(db, probe, run.id, effectiveAt, now);
   const points = await runPoints(db, run.id);
   const previous = await calibrationInForce(db, probe.id, run.startedAt);
   const progress = progressOf(run, points, previous !== null);
   const pending = progress.steps.find((s) => !s.done && s.key !== "result");
   if (pending) throw conflict(`Finish the ${pending.key} step before saving.`);
   const fit = fitPoints(probe, points, previous);
-  return db.transaction(async (tx) => {
+  const saved = await db.transaction(async (tx) => {
     const lastFinished = await lastFinishedRun(tx, probe.id, run.id);
     const replace = fit.verdict === "rejected" && lastFinished?.status === "rejected";
     const reasons = fit.verdict === "accepted" ? [acceptedReason(fit), ...fit.advice] : fit.reasons;
@@ -360,7 +393,7 @@ export async function completeRun(db: Db, user: Actor, runId: number, input: { n
       .set({
         status: fit.verdict,
         completedAt: now,
-        effectiveAt: fit.verdict === "accepted" ? now : null,
+        effectiveAt: fit.verdict === "accepted" ? effectiveAt : null,
         slopePct: fit.kind === "ph" ? fit.slopePct : null,
         offsetMv: fit.kind === "ph" ? fit.offsetMv : null,
         cellConstant: fit.kind === "ec" ? fit.cellConstant : null,
@@ -378,9 +411,13 @@ export async function completeRun(db: Db, user: Actor, runId: number, input: { n
       await tx.update(probes).set({ status: "replace" }).where(eq(probes.id, probe.id));
       await audit(tx, { orgId: user.orgId, userId: user.id, action: "probe.mark-replace", entity: "probe", entityId: probe.id, detail: { probe: probe.serial, reason: "Rejected twice in a row" }, at: now });
     }
-    await audit(tx, { orgId: user.orgId, userId: user.id, action: "calibration.save", entity: "calibration_run", entityId: run.id, detail: { probe: probe.serial, verdict: fit.verdict }, at: now });
+    const late = effectiveAt < now ? { effectiveAt: new Date(effectiveAt).toISOString() } : {};
+    await audit(tx, { orgId: user.orgId, userId: user.id, action: "calibration.save", entity: "calibration_run", entityId: run.id, detail: { probe: probe.serial, verdict: fit.verdict, ...late }, at: now });
     return { run: saved, fit, probeMarkedForReplacement: replace };
   });
+  // In force from a time in the past (entered late): the readings stored since are corrected again.
+  const recomputed = saved.run.status === "accepted" && effectiveAt < now ? await recomputeFrom(db, probe.id, effectiveAt) : null;
+  return { ...saved, recomputed };
 }
 
 function acceptedReason(fit: Fit): string {

@@ -5,7 +5,7 @@ import { z } from "zod";
 import { and, desc, eq, gte, inArray, isNotNull, lte, sql } from "drizzle-orm";
 import type { Db } from "../client";
 import { probes, readings, sites, spotChecks, tanks } from "../schema";
-import { unprocessable } from "../../app/_server/errors";
+import { notFound, unprocessable } from "../../app/_server/errors";
 import { audit, type Tx } from "./audit";
 import { probeInOrg, type ProbeRow, type TankRow } from "./calibration-scope";
 import type { Actor } from "./calibration-runs";
@@ -43,24 +43,66 @@ function checkValue(probe: ProbeRow, value: number): string | null {
   return null;
 }
 
-async function insertSpotCheck(tx: Tx, user: Actor, probe: ProbeRow, tank: TankRow, input: SpotCheckInput) {
+/** The comparison columns of a spot check: the meter against Tidewell's nearest reading. */
+async function compared(tx: Tx, probe: ProbeRow, tank: TankRow, input: Omit<SpotCheckInput, "probeId">) {
   const match = await nearestReading(tx, probe.id, input.takenAt);
   const difference = match ? input.meterValue - match.value : null;
+  return {
+    takenAt: input.takenAt,
+    meterValue: input.meterValue,
+    tidewellValue: match?.value ?? null,
+    tidewellTs: match?.ts ?? null,
+    difference,
+    pastTolerance: difference !== null && Math.abs(difference) > tolerance(probe, tank) + 1e-9,
+    note: input.note?.trim() || null,
+  };
+}
+
+async function insertSpotCheck(tx: Tx, user: Actor, probe: ProbeRow, tank: TankRow, input: SpotCheckInput) {
   const [row] = await tx
     .insert(spotChecks)
-    .values({
-      probeId: probe.id,
-      takenAt: input.takenAt,
-      meterValue: input.meterValue,
-      tidewellValue: match?.value ?? null,
-      tidewellTs: match?.ts ?? null,
-      difference,
-      pastTolerance: difference !== null && Math.abs(difference) > tolerance(probe, tank) + 1e-9,
-      enteredBy: user.id,
-      note: input.note?.trim() || null,
-    })
+    .values({ probeId: probe.id, enteredBy: user.id, ...(await compared(tx, probe, tank, input)) })
     .returning();
   return row;
+}
+
+/** A spot check of the caller's organisation, with its probe and tank; 404 otherwise. */
+export async function spotCheckInOrg(db: Db, orgId: number, id: number) {
+  const [found] = await db
+    .select({ row: spotChecks, probe: probes, tank: tanks })
+    .from(spotChecks)
+    .innerJoin(probes, eq(probes.id, spotChecks.probeId))
+    .innerJoin(tanks, eq(tanks.id, probes.tankId))
+    .innerJoin(sites, eq(sites.id, tanks.siteId))
+    .where(and(eq(spotChecks.id, id), eq(sites.orgId, orgId)));
+  if (!found) throw notFound("That spot check");
+  return found;
+}
+
+/** What the audit log keeps of a spot check, so an edit or a deletion can be traced. */
+const auditedValues = (r: typeof spotChecks.$inferSelect) => ({ takenAt: new Date(r.takenAt).toISOString(), meterValue: r.meterValue, note: r.note });
+
+/** Corrects a spot check (time, meter value, note) and compares it again. */
+export async function editSpotCheck(db: Db, user: Actor, id: number, input: Omit<SpotCheckInput, "probeId">, now = Date.now()) {
+  const { row, probe, tank } = await spotCheckInOrg(db, user.orgId, id);
+  const bad = checkValue(probe, input.meterValue);
+  if (bad) throw unprocessable(bad, { meterValue: bad });
+  if (input.takenAt > now + 60_000) throw unprocessable("The reading's time is in the future.", { takenAt: "Check the time" });
+  return db.transaction(async (tx) => {
+    const [updated] = await tx.update(spotChecks).set(await compared(tx, probe, tank, input)).where(eq(spotChecks.id, id)).returning();
+    await audit(tx, { orgId: user.orgId, userId: user.id, action: "spot-check.edit", entity: "spot_check", entityId: id, detail: { probe: probe.serial, before: auditedValues(row), after: auditedValues(updated) }, at: now });
+    return { spotCheck: updated, tolerance: tolerance(probe, tank), kind: probe.kind };
+  });
+}
+
+/** Deletes a spot check entered in error; the audit entry keeps what it said. */
+export async function deleteSpotCheck(db: Db, user: Actor, id: number, now = Date.now()) {
+  const { row, probe } = await spotCheckInOrg(db, user.orgId, id);
+  await db.transaction(async (tx) => {
+    await tx.delete(spotChecks).where(eq(spotChecks.id, id));
+    await audit(tx, { orgId: user.orgId, userId: user.id, action: "spot-check.delete", entity: "spot_check", entityId: id, detail: { probe: probe.serial, deleted: auditedValues(row) }, at: now });
+  });
+  return { deleted: id };
 }
 
 export async function addSpotCheck(db: Db, user: Actor, input: SpotCheckInput, now = Date.now()) {

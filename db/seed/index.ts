@@ -389,5 +389,8 @@ async function insertBulk(client: Client, readingRows: string[], rollupRows: str
     statements.push(`INSERT INTO readings (probe_id, ts, raw, value, quality, calibration_run_id) VALUES ${readingRows.slice(i, i + 2000).join(",")}`);
     statements.push(`INSERT INTO rollups (probe_id, minute, min, max, sum, count) VALUES ${rollupRows.slice(i, i + 2000).join(",")}`);
   }
+  // The hourly rollups are the minute ones folded per hour (as the ingest keeps them).
+  statements.push(`INSERT INTO rollups_hourly (probe_id, hour, min, max, sum, count)
+    SELECT probe_id, (minute / 3600000) * 3600000, min(min), max(max), sum(sum), sum(count) FROM rollups GROUP BY 1, 2`);
   await client.batch(statements, "write");
 }

@@ -154,8 +154,12 @@ export interface TankHolds {
   tank: HoldRow | null;
   /** Active holds on single probes. */
   probes: HoldRow[];
-  /** When the last hold ended (starts the settling period). */
+  /** When the last hold (of the tank or any of its probes) ended. */
   lastReleasedAt: number | null;
+  /** When the last whole-tank hold ended (starts every probe's settling period). */
+  tankReleasedAt: number | null;
+  /** When the last hold on each single probe ended (starts that probe's settling period). */
+  probeReleasedAt: Map<number, number>;
   /** The last released hold, whose dosing resume may still be outstanding. */
   lastReleased: HoldRow | null;
 }
@@ -180,12 +184,19 @@ export async function loadHolds(db: Db): Promise<Map<number, TankHolds>> {
   const released = latest.length
     ? await db.select(HOLD_COLUMNS).from(holds).where(and(inArray(holds.id, latest.map((r) => r.id))))
     : [];
+  const releases = await db.all<{ tank_id: number; probe_id: number | null; at: number }>(sql`
+    SELECT tank_id, probe_id, max(released_at) AS at FROM holds WHERE released_at IS NOT NULL GROUP BY tank_id, probe_id`);
   const out = new Map<number, TankHolds>();
   const entry = (tankId: number) => {
     let e = out.get(tankId);
-    if (!e) out.set(tankId, (e = { tank: null, probes: [], lastReleasedAt: null, lastReleased: null }));
+    if (!e) out.set(tankId, (e = { tank: null, probes: [], lastReleasedAt: null, lastReleased: null, tankReleasedAt: null, probeReleasedAt: new Map() }));
     return e;
   };
+  for (const r of releases) {
+    const e = entry(r.tank_id);
+    if (r.probe_id === null) e.tankReleasedAt = r.at;
+    else e.probeReleasedAt.set(r.probe_id, r.at);
+  }
   for (const h of active) {
     const e = entry(h.tankId);
     if (h.probeId === null) e.tank = h;
@@ -199,6 +210,23 @@ export async function loadHolds(db: Db): Promise<Map<number, TankHolds>> {
     }
   }
   return out;
+}
+
+/** When a probe's settling period starts: the end of the last hold on its tank or on it alone. */
+export function settlingFrom(h: TankHolds | undefined, probeId: number): number | null {
+  if (!h) return null;
+  const own = h.probeReleasedAt.get(probeId) ?? null;
+  if (h.tankReleasedAt === null) return own;
+  return own === null ? h.tankReleasedAt : Math.max(own, h.tankReleasedAt);
+}
+
+/** The hold the time rules see: the tank's own, else the probe hold due to end first (covering all held probes). */
+export function timeRuleHold(h: TankHolds | undefined): { hold: HoldRow; probeIds: string[] | null } | null {
+  if (!h) return null;
+  if (h.tank) return { hold: h.tank, probeIds: null };
+  if (h.probes.length === 0) return null;
+  const first = h.probes.reduce((a, b) => (b.plannedEndAt < a.plannedEndAt ? b : a));
+  return { hold: first, probeIds: h.probes.map((p) => String(p.probeId)) };
 }
 
 /** Last reading time per probe (any quality), for the stale rule after a restart. */

@@ -32,12 +32,25 @@ export function siteTime(site: SiteContext, at: number): string {
   return new Intl.DateTimeFormat("en-GB", { timeZone: site.timeZone, day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23" }).format(at);
 }
 
+export interface Route {
+  role: Role;
+  /** Why a recipient gets the mail, after "the <role> ": "on the night shift". */
+  why: string;
+  /** The duty nobody may have been there for: "on the night shift at North Greenhouse". */
+  duty: string;
+}
+
 /** Whom an incident's first mail goes to, and why (shown in the timeline and the mail). */
-export function routeFor(tank: TankContext, ev: Pick<AlertEvent, "cause" | "calibrationLapsed">, now: number): { role: Role; why: string } {
+export function routeFor(tank: TankContext, ev: Pick<AlertEvent, "cause" | "calibrationLapsed">, now: number): Route {
   const lapsedRole = ev.calibrationLapsed ? tank.lapsedRoute[ev.cause] : undefined;
-  if (lapsedRole) return { role: lapsedRole, why: "who gets alerts on readings from a lapsed calibration" };
+  if (lapsedRole) return { role: lapsedRole, why: "who gets alerts on readings from a lapsed calibration", duty: "for alerts on readings from a lapsed calibration" };
   const s = onShift(tank.site, now);
-  return { role: s.role, why: `on the ${s.shift} shift` };
+  return { role: s.role, why: `on the ${s.shift} shift`, duty: `on the ${s.shift} shift at ${tank.site.name}` };
+}
+
+/** The timeline's entry when a role had nobody to mail: names the role and its duty (shift). */
+export function nobodyToMailDetail(role: Role, duty: string): string {
+  return `Nobody to e-mail: no active ${ROLE_WORDS[role]} ${duty} has e-mail notifications on`;
 }
 
 interface IncidentMail {
@@ -84,7 +97,7 @@ export async function mailIncident(
   db: Db,
   sendMail: SendMail,
   m: IncidentMail,
-  o: { kind: "incident" | "escalation"; recipients: Recipient[]; why: string; now: number },
+  o: { kind: "incident" | "escalation"; recipients: Recipient[]; route: Route; now: number },
 ): Promise<SendOutcome> {
   const outcome: SendOutcome = { sent: 0, failed: 0 };
   const rows: (typeof notifications.$inferInsert)[] = [];
@@ -97,7 +110,7 @@ export async function mailIncident(
       : "A Tidewell alert needs someone to look at the tank.";
   for (const r of o.recipients) {
     const token = await signAckToken({ userId: r.id, incidentId: m.incidentId, now: o.now });
-    const text = incidentText(m, ackUrl(token), intro, `the ${ROLE_WORDS[r.role]} ${o.why}`);
+    const text = incidentText(m, ackUrl(token), intro, `the ${ROLE_WORDS[r.role]} ${o.route.why}`);
     let error: string | null = null;
     try {
       await sendMail({ to: r.email, subject, text });
@@ -107,11 +120,11 @@ export async function mailIncident(
       outcome.failed++;
     }
     rows.push({ orgId: m.tank.orgId, incidentId: m.incidentId, userId: r.id, kind: o.kind, toAddress: r.email, subject, status: error ? "failed" : "sent", error, sentAt: o.now });
-    const who = `${r.name} (${ROLE_WORDS[r.role]}, ${o.why})`;
+    const who = `${r.name} (${ROLE_WORDS[r.role]}, ${o.route.why})`;
     events.push({ incidentId: m.incidentId, at: o.now, kind: "notified", userId: null, detail: error ? `E-mail to ${who} failed: ${error}` : `E-mail to ${who}` });
   }
   if (o.recipients.length === 0) {
-    events.push({ incidentId: m.incidentId, at: o.now, kind: "notified", detail: `Nobody to e-mail: no active ${o.kind === "escalation" ? "owner" : "user of the routed role"} with e-mail notifications on` });
+    events.push({ incidentId: m.incidentId, at: o.now, kind: "notified", detail: nobodyToMailDetail(o.route.role, o.route.duty) });
   }
   await db.transaction(async (tx) => {
     if (rows.length) await tx.insert(notifications).values(rows);

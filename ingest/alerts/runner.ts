@@ -9,7 +9,7 @@ import { releaseHold, markDosingSent } from "../../db/queries/holds";
 import { evaluateReading, evaluateTime, isFiring, restoreProbeState, restoreTankState, formatDuration, type AlertEvent, type Cause } from "../../lib/alerts";
 import type { CalibratedReading } from "../payloads";
 import { sendMail as smtpSendMail } from "../mailer";
-import { calibrationInfo, lastReadingTimes, loadContext, loadHolds, type AlertContext, type HoldRow, type TankContext, type TankHolds } from "./context";
+import { calibrationInfo, lastReadingTimes, loadContext, loadHolds, settlingFrom, timeRuleHold, type AlertContext, type HoldRow, type TankContext, type TankHolds } from "./context";
 import { sendDueDigests } from "./digest";
 import { DOSING_PUBLISH, inhibitMessage, resumeMessage } from "./dosing-command";
 import { applyAlertEvents, type Applied, type IncidentChange } from "./incident-store";
@@ -134,7 +134,7 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
           db,
           sendMail,
           { incidentId, tank, cause: event.cause, message: event.message, severity: event.severity, openedAt: event.at, calibrationLapsed: event.calibrationLapsed },
-          { kind: "incident", recipients, why: route.why, now: mailAt },
+          { kind: "incident", recipients, route, now: mailAt },
         );
       } catch (err) {
         log(`could not notify incident ${incidentId}`, err);
@@ -166,7 +166,7 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
         probeId: String(probe.id),
         // lib/alerts works in mS/cm; readings carry µS/cm.
         reading: { ts: r.ts, value: r.value === null ? null : r.kind === "ec" ? r.value / 1000 : r.value, raw: r.raw, measure: r.kind, quality: r.quality },
-        tank: { band: tank.band, hold: { active: isHeld(h, probe.id), releasedAt: h?.lastReleasedAt ?? null } },
+        tank: { band: tank.band, hold: { active: isHeld(h, probe.id), releasedAt: settlingFrom(h, probe.id) } },
         calibration: { status: calibrationInfo(tank, probe, r.ts).status },
         settings: tank.settings,
       });
@@ -232,7 +232,8 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
     const eventsByTank = new Map<number, AlertEvent[]>();
     for (const tank of c.tanks.values()) {
       const h = byTank.get(tank.id);
-      const active = h?.tank ?? h?.probes[0] ?? null;
+      const onHold = timeRuleHold(h);
+      const active = onHold?.hold ?? null;
       const released = h?.lastReleased ?? null;
       const result = evaluateTime({
         now,
@@ -244,7 +245,7 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
           calibration: calibrationInfo(tank, p, now),
         })),
         tank: {
-          hold: active ? { active: true, placedAt: active.placedAt, plannedEndAt: active.plannedEndAt, releasedAt: h?.lastReleasedAt ?? null } : { active: false, releasedAt: h?.lastReleasedAt ?? null },
+          hold: active ? { active: true, probeIds: onHold?.probeIds ?? null, placedAt: active.placedAt, plannedEndAt: active.plannedEndAt, releasedAt: h?.lastReleasedAt ?? null } : { active: false, releasedAt: h?.lastReleasedAt ?? null },
           dosingInhibit: active
             ? { active: active.dosingInhibitSentAt !== null, plannedEndAt: active.plannedEndAt }
             : { active: !!released && released.dosingInhibitSentAt !== null && released.dosingResumeSentAt === null, plannedEndAt: released?.plannedEndAt ?? null },
@@ -304,7 +305,7 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
           db,
           sendMail,
           { incidentId: i.id, tank, cause: i.cause as Cause, message: i.message, severity: i.severity, openedAt: i.openedAt, calibrationLapsed: i.calibrationLapsed },
-          { kind: "escalation", recipients: owners, why: `and nobody acknowledged the incident within ${after} min`, now },
+          { kind: "escalation", recipients: owners, route: { role: "owner", why: `and nobody acknowledged the incident within ${after} min`, duty: `to take an escalation at ${tank.site.name}` }, now },
         );
       } catch (err) {
         log(`could not escalate incident ${i.id}`, err);

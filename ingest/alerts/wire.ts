@@ -7,7 +7,7 @@ import type { Publish } from "./publish";
 export const TICK_EVERY_MS = 30_000;
 
 /** ALERTS_TICK_MS and ALERTS_RESOLVE_AFTER_MS shorten the cadence for end-to-end tests. */
-function fromEnv(name: string): number | undefined {
+export function fromEnv(name: string): number | undefined {
   const v = Number(process.env[name]);
   return Number.isInteger(v) && v > 0 ? v : undefined;
 }

@@ -1,5 +1,5 @@
 // One flush = one write transaction: new readings (exact duplicates of a stored probe+ts are
-// ignored), the rollups of exactly the rows that were new, dead-letter samples, and devices'
+// ignored), the minute and hourly rollups of exactly the rows that were new, dead-letter samples, and devices'
 // last-seen times. The ingest acknowledges the batch's MQTT messages only after this commits.
 //
 // For a local SQLite file the writer uses the libsql driver directly: multi-row INSERTs
@@ -12,7 +12,7 @@ import Database from "libsql";
 import { createClient, type InArgs } from "@libsql/client";
 import type { ProbeKind, QualityFlag } from "../../db/schema";
 import type { DeadLetter } from "./refusals";
-import { aggregateRollups, rollupUpsertSql, type RollupDelta } from "./rollups";
+import { aggregateRollups, hourlyOf, hourlyUpsertSql, rollupUpsertSql, type RollupDelta } from "./rollups";
 
 export interface PendingRow {
   probeId: number;
@@ -65,6 +65,7 @@ class NativeWriter implements ReadingWriter {
   private readonly db: Database.Database;
   private readonly inserts = new Map<number, Database.Statement<unknown[]>>();
   private readonly upsert: Database.Statement<unknown[]>;
+  private readonly upsertHourly: Database.Statement<unknown[]>;
   private readonly letter: Database.Statement<unknown[]>;
   private readonly prune: Database.Statement<unknown[]>;
   private readonly touch: Database.Statement<unknown[]>;
@@ -74,6 +75,7 @@ class NativeWriter implements ReadingWriter {
     this.db = new Database(fileOfUrl(o.url), { timeout: 10_000 });
     this.db.exec(`PRAGMA journal_mode=WAL; PRAGMA synchronous=${o.synchronous};`);
     this.upsert = this.db.prepare(rollupUpsertSql(1));
+    this.upsertHourly = this.db.prepare(hourlyUpsertSql(1));
     this.letter = this.db.prepare(INSERT_DEAD_LETTER);
     this.prune = this.db.prepare(PRUNE_DEAD_LETTERS);
     this.touch = this.db.prepare(TOUCH_DEVICE);
@@ -121,7 +123,9 @@ class NativeWriter implements ReadingWriter {
     this.tx.begin.run();
     try {
       inserted = this.insertRows(rows);
-      for (const d of aggregateRollups(inserted)) this.upsert.run(d.probeId, d.minute, d.min, d.max, d.sum, d.count);
+      const minutes = aggregateRollups(inserted);
+      for (const d of minutes) this.upsert.run(d.probeId, d.minute, d.min, d.max, d.sum, d.count);
+      for (const d of hourlyOf(minutes)) this.upsertHourly.run(d.probeId, d.minute, d.min, d.max, d.sum, d.count);
       for (const d of deadLetters) {
         this.letter.run(d.at, d.topic, d.reason, d.sample);
         this.prune.run(d.reason, d.reason, this.o.deadLettersPerReason);
@@ -169,12 +173,17 @@ class ClientWriter implements ReadingWriter {
         if (rs.rows.length === chunk.length) inserted.push(...chunk);
         else for (const row of rs.rows) inserted.push(byKey.get(`${row[0]}:${row[1]}`)!);
       }
-      const deltas: RollupDelta[] = aggregateRollups(inserted);
-      for (let i = 0; i < deltas.length; i += CHUNK) {
-        const chunk = deltas.slice(i, i + CHUNK);
-        const args: InArgs = [];
-        for (const d of chunk) args.push(d.probeId, d.minute, d.min, d.max, d.sum, d.count);
-        await tx.execute({ sql: rollupUpsertSql(chunk.length), args });
+      const minutes: RollupDelta[] = aggregateRollups(inserted);
+      for (const [deltas, upsertSql] of [
+        [minutes, rollupUpsertSql],
+        [hourlyOf(minutes), hourlyUpsertSql],
+      ] as const) {
+        for (let i = 0; i < deltas.length; i += CHUNK) {
+          const chunk = deltas.slice(i, i + CHUNK);
+          const args: InArgs = [];
+          for (const d of chunk) args.push(d.probeId, d.minute, d.min, d.max, d.sum, d.count);
+          await tx.execute({ sql: upsertSql(chunk.length), args });
+        }
       }
       for (const d of deadLetters) {
         await tx.execute({ sql: INSERT_DEAD_LETTER, args: [d.at, d.topic, d.reason, d.sample] });

@@ -3,12 +3,23 @@ import { z } from "zod";
 
 const schema = z.object({
   INGEST_WORKER_NAME: z.string().min(1).default("ingest"),
+  /**
+   * Set to run this worker as one of several in an MQTT 5 shared subscription
+   * ($share/{group}/tw/v1/dev/+/raw) on an external broker (Mosquitto). Each worker needs its
+   * own INGEST_WORKER_NAME: it names its persistent session and its health snapshot.
+   */
+  INGEST_SHARED_GROUP: z
+    .string()
+    .regex(/^[A-Za-z0-9_-]{1,64}$/, "letters, digits, _ and - only")
+    .optional(),
+  /** How long the broker keeps a shared worker's session (and queues its share) while it is away. */
+  INGEST_SESSION_EXPIRY_S: z.coerce.number().int().positive().default(7 * 86_400),
   /** A batch is committed at the latest this long after its first message arrived. */
   INGEST_FLUSH_MS: z.coerce.number().int().positive().default(50),
-  /** ...or as soon as it holds this many rows. */
-  INGEST_BATCH_ROWS: z.coerce.number().int().positive().default(500),
+  /** ...or as soon as it holds this many rows: a cap; batches are sized by time, so fewer, larger transactions at high rates. */
+  INGEST_BATCH_ROWS: z.coerce.number().int().positive().default(10_000),
   /** Above this many uncommitted rows the worker stops reading from the broker (backpressure). */
-  INGEST_MAX_PENDING_ROWS: z.coerce.number().int().positive().default(20_000),
+  INGEST_MAX_PENDING_ROWS: z.coerce.number().int().positive().default(40_000),
   INGEST_HEALTH_MS: z.coerce.number().int().positive().default(1000),
   /** How often calibrations, holds and the probe registry are re-read (events also refresh them). */
   INGEST_REFRESH_MS: z.coerce.number().int().positive().default(2000),
@@ -22,6 +33,8 @@ const schema = z.object({
 
 export type IngestConfig = {
   workerName: string;
+  sharedGroup: string | null;
+  sessionExpirySeconds: number;
   flushMs: number;
   batchRows: number;
   maxPendingRows: number;
@@ -38,6 +51,8 @@ export function ingestConfig(env: NodeJS.ProcessEnv = process.env): IngestConfig
   const e = schema.parse(env);
   return {
     workerName: e.INGEST_WORKER_NAME,
+    sharedGroup: e.INGEST_SHARED_GROUP ?? null,
+    sessionExpirySeconds: e.INGEST_SESSION_EXPIRY_S,
     flushMs: e.INGEST_FLUSH_MS,
     batchRows: e.INGEST_BATCH_ROWS,
     maxPendingRows: e.INGEST_MAX_PENDING_ROWS,

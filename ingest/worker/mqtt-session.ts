@@ -1,5 +1,6 @@
 // The ingest's broker connection: a persistent session (fixed client id, clean: false) with
-// QoS 1 raw subscriptions whose PUBACKs are sent by us, after the rows are committed.
+// QoS 1 raw subscriptions whose PUBACKs are sent by us, after the rows are committed. Several
+// workers can share the raw subscription (MQTT 5 `$share/{group}/…`, each its own session).
 //
 // mqtt.js acknowledges a QoS 1 message as soon as `handleMessage` calls back, and it does not
 // read the next packet until then; `customHandleAcks` only exists for MQTT 5, which aedes does
@@ -34,6 +35,11 @@ export interface IngestSessionOptions {
   onRaw: RawHandler;
   onOther: (topic: string, payload: Buffer) => void;
   onConnect?: (sessionPresent: boolean) => void;
+  /**
+   * MQTT 5 (for a shared subscription): the session outlives a disconnect by this long, so the
+   * broker keeps this worker's unacknowledged and queued messages for it until it is back.
+   */
+  mqtt5SessionExpirySeconds?: number;
   log: Logger;
 }
 
@@ -42,7 +48,10 @@ export interface IngestSession {
   /** Runs `fn` (which sends many acks) with the socket corked: one write instead of hundreds. */
   corked(fn: () => void): void;
   publish(topic: string, payload: string | Buffer, qos?: 0 | 1, retain?: boolean): void;
-  close(): Promise<void>;
+  /** Stops new raw messages coming (the broker gives them to the rest of a shared group). */
+  unsubscribeRaw(): Promise<void>;
+  /** Disconnects; `endSession` (MQTT 5) also ends the persistent session at the broker. */
+  close(endSession?: boolean): Promise<void>;
 }
 
 export function openIngestSession(o: IngestSessionOptions): IngestSession {
@@ -55,6 +64,7 @@ export function openIngestSession(o: IngestSessionOptions): IngestSession {
     connectTimeout: 10_000,
     keepalive: 30,
     resubscribe: false, // we subscribe on every connect ourselves
+    ...(o.mqtt5SessionExpirySeconds ? { protocolVersion: 5 as const, properties: { sessionExpiryInterval: o.mqtt5SessionExpirySeconds } } : {}),
   };
   const client = mqtt.connect(o.url, options);
   const internal = client as unknown as { _sendPacket?: SendPacket };
@@ -134,6 +144,10 @@ export function openIngestSession(o: IngestSessionOptions): IngestSession {
       if (!client.connected) return; // live readings are best effort; the database is the record
       client.publish(topic, payload, { qos, retain });
     },
-    close: () => new Promise<void>((resolve) => client.end(false, {}, () => resolve())),
+    unsubscribeRaw: async () => {
+      if (client.connected) await client.unsubscribeAsync(o.rawFilter);
+    },
+    close: (endSession = false) =>
+      new Promise<void>((resolve) => client.end(false, endSession && o.mqtt5SessionExpirySeconds ? { properties: { sessionExpiryInterval: 0 } } : {}, () => resolve())),
   };
 }

@@ -1,9 +1,12 @@
-// One-minute rollups (min, max, sum, count of the corrected value per probe), aggregated in
-// memory per batch and merged into the table with an upsert. Rows without a value are skipped.
+// Rollups: min, max, sum and count of the corrected value per probe and minute (`rollups`) and
+// per probe and hour (`rollups_hourly`), aggregated in memory per batch and merged into the
+// tables with upserts in the batch's transaction. Rows without a value are skipped.
 export const MINUTE_MS = 60_000;
+export const HOUR_MS = 3_600_000;
 
 export interface RollupDelta {
   probeId: number;
+  /** Start of the minute (or hour) in ms epoch. */
   minute: number;
   min: number;
   max: number;
@@ -15,29 +18,51 @@ export function minuteOf(ts: number): number {
   return Math.floor(ts / MINUTE_MS) * MINUTE_MS;
 }
 
+export function hourOf(ts: number): number {
+  return Math.floor(ts / HOUR_MS) * HOUR_MS;
+}
+
+function merge(into: Map<string, RollupDelta>, probeId: number, start: number, min: number, max: number, sum: number, count: number) {
+  const k = `${probeId}:${start}`;
+  const d = into.get(k);
+  if (d) {
+    if (min < d.min) d.min = min;
+    if (max > d.max) d.max = max;
+    d.sum += sum;
+    d.count += count;
+  } else {
+    into.set(k, { probeId, minute: start, min, max, sum, count });
+  }
+}
+
 export function aggregateRollups(rows: Iterable<{ probeId: number; ts: number; value: number | null }>): RollupDelta[] {
   const byKey = new Map<string, RollupDelta>();
   for (const r of rows) {
     if (r.value === null) continue;
-    const minute = minuteOf(r.ts);
-    const k = `${r.probeId}:${minute}`;
-    const d = byKey.get(k);
-    if (d) {
-      if (r.value < d.min) d.min = r.value;
-      if (r.value > d.max) d.max = r.value;
-      d.sum += r.value;
-      d.count++;
-    } else {
-      byKey.set(k, { probeId: r.probeId, minute, min: r.value, max: r.value, sum: r.value, count: 1 });
-    }
+    merge(byKey, r.probeId, minuteOf(r.ts), r.value, r.value, r.value, 1);
   }
   return [...byKey.values()];
 }
 
-/** Upsert of rollup deltas (6 parameters per row) into existing minutes. */
+/** The hourly deltas of a batch's minute deltas (`minute` then holds the hour start). */
+export function hourlyOf(minutes: readonly RollupDelta[]): RollupDelta[] {
+  const byKey = new Map<string, RollupDelta>();
+  for (const d of minutes) merge(byKey, d.probeId, hourOf(d.minute), d.min, d.max, d.sum, d.count);
+  return [...byKey.values()];
+}
+
+const upsertSql = (table: "rollups" | "rollups_hourly", column: "minute" | "hour", n: number) =>
+  `INSERT INTO ${table} (probe_id, ${column}, min, max, sum, count) VALUES ${Array(n).fill("(?,?,?,?,?,?)").join(",")}
+    ON CONFLICT(probe_id, ${column}) DO UPDATE SET
+      min = min(${table}.min, excluded.min), max = max(${table}.max, excluded.max),
+      sum = ${table}.sum + excluded.sum, count = ${table}.count + excluded.count`;
+
+/** Upsert of minute deltas (6 parameters per row). */
 export function rollupUpsertSql(n: number): string {
-  return `INSERT INTO rollups (probe_id, minute, min, max, sum, count) VALUES ${Array(n).fill("(?,?,?,?,?,?)").join(",")}
-    ON CONFLICT(probe_id, minute) DO UPDATE SET
-      min = min(rollups.min, excluded.min), max = max(rollups.max, excluded.max),
-      sum = rollups.sum + excluded.sum, count = rollups.count + excluded.count`;
+  return upsertSql("rollups", "minute", n);
+}
+
+/** Upsert of hourly deltas (6 parameters per row). */
+export function hourlyUpsertSql(n: number): string {
+  return upsertSql("rollups_hourly", "hour", n);
 }

@@ -107,7 +107,8 @@ function runSteps<K extends Cause, C extends K>(
  * dosing-inhibit-overrun per tank. Pure; inputs are not mutated.
  *
  * While the tank is on hold, probe causes do not fire (they may still clear, e.g.
- * an accepted calibration clears "calibration-lapsed"); hold-overrun and
+ * an accepted calibration clears "calibration-lapsed"); a hold on single probes
+ * (`tank.hold.probeIds`) silences only those probes; hold-overrun and
  * dosing-inhibit-overrun fire regardless. Each cause fires once and clears once:
  * calling again with the returned states yields no new events.
  */
@@ -115,7 +116,8 @@ export function evaluateTime(input: EvaluateTimeInput): EvaluateTimeResult {
   const settings = input.settings ?? DEFAULT_RULE_SETTINGS;
   const { now, tank } = input;
   const events: AlertEvent[] = [];
-  const allowProbeFire = !tank.hold.active;
+  // A hold on single probes silences only those probes; a tank hold silences them all.
+  const probeHeld = (probeId: string) => tank.hold.active && (tank.hold.probeIds == null || tank.hold.probeIds.includes(probeId));
 
   const probes = input.probes.map((p) => {
     const prev = restoreProbeState(p.state);
@@ -167,7 +169,7 @@ export function evaluateTime(input: EvaluateTimeInput): EvaluateTimeResult {
         },
       ],
       ctx,
-      allowProbeFire,
+      !probeHeld(p.probeId),
       events,
     );
     return { probeId: p.probeId, measure: m, state: { ...prev, causes } };

@@ -81,3 +81,19 @@ export function countsOverTime(
   }
   return { starts, series };
 }
+
+/**
+ * The top of each series' segment in a stacked bar per bucket: series 0 at the bottom, each next
+ * series on top of the ones before (so the last row is the bucket's total). A bucket with nothing
+ * in it is null for every series (no bar drawn).
+ */
+export function stackedTops(data: CountSeries): (number | null)[][] {
+  const running = data.starts.map(() => 0);
+  const totals = data.starts.map((_, j) => data.series.reduce((sum, s) => sum + s.counts[j], 0));
+  return data.series.map((s) =>
+    s.counts.map((c, j) => {
+      running[j] += c;
+      return totals[j] === 0 ? null : running[j];
+    }),
+  );
+}

@@ -52,3 +52,13 @@ export { fitEcStability, type ConductanceSample, type EcStabilityOptions } from 
 export { runProgress, type RunProgress, type RunProgressInput, type RunStep, type RunStepKey } from "./run-steps";
 export { parseStandardText, standardLabel, EC_STANDARD_LABELS } from "./standard-text";
 export { DEFAULT_STABILITY_WINDOW_MS, parseStabilityWindowMs } from "./stability-window";
+export {
+  BUFFER_TABLE_LIMITS,
+  bufferTableProblem,
+  bufferTableRowsSchema,
+  bufferTableSchema,
+  bufferTableToRows,
+  readBufferTableRows,
+  type BufferTableCheck,
+  type BufferTableRow,
+} from "./buffer-table-input";

@@ -53,6 +53,7 @@ export async function benchAlerts(opts: { seconds?: number } = {}): Promise<Metr
 
 export const alertsSection: BenchSection = {
   name: "alerts",
+  metrics: { alert_eval_readings_per_s: "readings/s" },
   async *run({ seconds }) {
     yield* await benchAlerts({ seconds });
   },

@@ -3,7 +3,7 @@
 import fs from "node:fs";
 import os from "node:os";
 import { createSeededDatabase } from "../../tests/integration/helpers/database";
-import { openDb, readIngestStats, startBroker, startIngest } from "../../tests/integration/helpers/tidewell";
+import { openDb, readIngestStats, startBroker, startIngest, startMosquitto } from "../../tests/integration/helpers/tidewell";
 import { stopAll } from "../../tests/integration/helpers/processes";
 import { sleep } from "../../tests/integration/helpers/wait";
 import { measureInsertCeiling } from "./ceiling";
@@ -15,7 +15,17 @@ const credentials = (file: string) => JSON.parse(fs.readFileSync(file, "utf8")) 
 
 export const ingestSection: BenchSection = {
   name: "ingest",
-  async *run({ seconds, log }): AsyncIterable<Metric> {
+  metrics: {
+    ingest_readings_per_s: "readings/s",
+    broker_cpu_us_per_reading: "µs",
+    ingest_cpu_us_per_reading: "µs",
+    publisher_cpu_us_per_reading: "µs",
+    load_average_1m: "load",
+    sqlite_insert_ceiling_per_s: "rows/s",
+    ingest_vs_ceiling_ratio: "ratio",
+    ingest_rss_mb: "MB",
+  },
+  async *run({ seconds, log, brokerKind }): AsyncIterable<Metric> {
     const db = await createSeededDatabase({ label: "bench" });
     const client = openDb(db);
     try {
@@ -28,11 +38,12 @@ export const ingestSection: BenchSection = {
       }
       const targets: PublisherTarget[] = credentials(db.credentialsFile).map((c) => ({ ...c, serials: serialsByController.get(c.controllerId) ?? [] }));
 
-      const broker = await startBroker(db);
+      // The embedded broker by default; --broker mosquitto measures the chain on Debian's Mosquitto.
+      const broker = brokerKind === "mosquitto" ? await startMosquitto(db.dir) : await startBroker(db);
       const ingest = await startIngest(db, broker.url, { INGEST_HEALTH_MS: "500" });
       const pids = { broker: broker.process.pid, ingest: ingest.pid, publisher: process.pid };
       const cpu = () => Object.fromEntries(Object.entries(pids).map(([k, pid]) => [k, cpuSeconds(pid) ?? NaN]));
-      log(`publishing through ${broker.url} from ${targets.length} controllers`);
+      log(`publishing through ${brokerKind === "mosquitto" ? "Mosquitto" : "the embedded broker"} at ${broker.url} from ${targets.length} controllers`);
       const publisher = new LoadPublisher(broker.url, targets);
       await publisher.start();
 
@@ -58,6 +69,9 @@ export const ingestSection: BenchSection = {
       // Where the time went: CPU µs per committed reading, per process.
       log(`CPU µs per reading: ${Object.keys(pids).map((k) => `${k} ${(((cpu1[k] - cpu0[k]) * 1e6) / rows).toFixed(1)}`).join(", ")} (the machine has ${os.cpus().length} cores, load ${os.loadavg()[0].toFixed(1)})`);
       yield { metric: "ingest_readings_per_s", value: Math.round(ingestRate), unit: "readings/s" };
+      // CPU per reading does not depend on what else the machine runs, unlike the rate.
+      for (const k of Object.keys(pids)) yield { metric: `${k}_cpu_us_per_reading`, value: Math.round(((cpu1[k] - cpu0[k]) * 1e7) / rows) / 10, unit: "µs" };
+      yield { metric: "load_average_1m", value: Math.round(os.loadavg()[0] * 100) / 100, unit: "load" };
 
       const probeIds = probes.rows.map((r) => Number(r.id));
       const ceiling = measureInsertCeiling(db.file, probeIds, Math.max(100_000, Math.round(ingestRate * 5)));

@@ -1,21 +1,25 @@
 // Bench section "live": the night manager's screen under load, through the real processes
-// (embedded broker, ingest, `next start` of the built app) on a seeded database of its own.
-//   publish_to_stream_p95_ms  device publish → the reading arriving at an SSE client, at 1,000 readings/s
-//   series_30d_ms             p95 of GET /api/tanks/[id]/series over 30 days of 1 Hz data of one probe, 2,000 points
-//   sse_clients_held          concurrent SSE clients still receiving after being held for 60 s
-//   sse_rss_growth_mb         growth of the web process's resident memory while holding them
+// (embedded broker, ingest, `next start` of the built app, built first when needed) on a
+// seeded database of its own.
+//   series_30d_ms             p95 of GET /api/tanks/[id]/series over 30 days of 1 Hz data of one probe, 2,000 points asked
+//   series_365d_ms            the same over a year (older than 30 days: rollups only, as retention leaves it)
+//   sse_clients_held          concurrent SSE clients (1,000) still receiving after being held for 60 s
+//   sse_rss_growth_mb         growth of the web process's resident memory from before opening them to the end
+//   sse_rss_growth_during_hold_mb  the same from when all were open and served to the end (a leak would show here)
+//   publish_to_stream_p95_ms  device publish → the reading arriving at one of those clients, at 1,000 readings/s, during the hold
 import fs from "node:fs";
 import path from "node:path";
 import mqtt, { type MqttClient } from "mqtt";
 import { createSeededDatabase } from "../../tests/integration/helpers/database";
 import { openDb, startBroker, startIngest } from "../../tests/integration/helpers/tidewell";
-import { REPO_ROOT, spawnProcess, stopAll } from "../../tests/integration/helpers/processes";
+import { REPO_ROOT, spawnProcess, spawnTsx, stopAll } from "../../tests/integration/helpers/processes";
 import { freePort } from "../../tests/integration/helpers/ports";
 import { sleep } from "../../tests/integration/helpers/wait";
 import { sessionFor, type HttpSession } from "../../tests/e2e/session";
+import { ensureBuild } from "./build";
 import { deviceClientId, topics } from "../../ingest/topics";
 import type { RawMessage } from "../../ingest/payloads";
-import type { BenchSection, Metric } from "./metric";
+import type { BenchSection, Metric, SectionOptions } from "./metric";
 
 const DAY_MS = 86_400_000;
 
@@ -125,17 +129,20 @@ async function pacedPublisher(url: string, targets: { controllerId: string; user
   };
 }
 
-/** 30 days of 1 Hz readings (and their per-minute rollups) for one new probe on a new tank. */
-async function addMonthOfOneHertz(client: ReturnType<typeof openDb>, now: number): Promise<number> {
+/**
+ * One new probe on a new tank: 30 days of 1 Hz readings with their minute and hourly rollups,
+ * and before them 335 days of rollups alone (what retention leaves of older raw readings).
+ */
+export async function addYearOfHistory(client: ReturnType<typeof openDb>, now: number): Promise<number> {
   const site = Number((await client.execute("SELECT id FROM sites ORDER BY id LIMIT 1")).rows[0].id);
   const tank = await client.execute({
     sql: "INSERT INTO tanks (site_id, name, crop, ph_min, ph_max, ec_min_us, ec_max_us) VALUES (?, 'Bench tank', 'leafy greens', 5.5, 6.5, 800, 1200) RETURNING id",
     args: [site],
   });
   const tankId = Number(tank.rows[0].id);
-  const probe = await client.execute({ sql: "INSERT INTO probes (tank_id, kind, serial, installed_at) VALUES (?, 'ph', 'BENCH-PH-1HZ', ?) RETURNING id", args: [tankId, now - 31 * DAY_MS] });
+  const probe = await client.execute({ sql: "INSERT INTO probes (tank_id, kind, serial, installed_at) VALUES (?, 'ph', 'BENCH-PH-1HZ', ?) RETURNING id", args: [tankId, now - 366 * DAY_MS] });
   const probeId = Number(probe.rows[0].id);
-  const start = Math.floor((now - 30 * DAY_MS) / 1000) * 1000;
+  const start = Math.floor((now - 30 * DAY_MS) / 60_000) * 60_000;
   const n = 30 * 86_400;
   await client.execute({
     sql: `WITH RECURSIVE s(i) AS (SELECT 0 UNION ALL SELECT i + 1 FROM s WHERE i < ?)
@@ -148,22 +155,52 @@ async function addMonthOfOneHertz(client: ReturnType<typeof openDb>, now: number
           SELECT probe_id, (ts / 60000) * 60000, min(value), max(value), sum(value), count(value) FROM readings WHERE probe_id = ? GROUP BY ts / 60000`,
     args: [probeId],
   });
+  const minutesBefore = 335 * 1440;
+  await client.execute({
+    sql: `WITH RECURSIVE s(i) AS (SELECT 1 UNION ALL SELECT i + 1 FROM s WHERE i < ?)
+          INSERT INTO rollups (probe_id, minute, min, max, sum, count)
+          SELECT ?, ? - i * 60000, 5.9, 6.1, 60 * 6.0, 60 FROM s`,
+    args: [minutesBefore, probeId, start],
+  });
+  await client.execute({
+    sql: `INSERT INTO rollups_hourly (probe_id, hour, min, max, sum, count)
+          SELECT probe_id, (minute / 3600000) * 3600000, min(min), max(max), sum(sum), sum(count) FROM rollups WHERE probe_id = ? GROUP BY 1, 2`,
+    args: [probeId],
+  });
   return tankId;
 }
 
-export async function benchLive(opts: { seconds: number; log: (line: string) => void; clients?: number }): Promise<Metric[]> {
-  const { seconds, log } = opts;
-  const clientCount = opts.clients ?? Number(process.env.BENCH_SSE_CLIENTS ?? 500);
-  if (!fs.existsSync(path.join(REPO_ROOT, ".next", "BUILD_ID"))) throw new Error("build the web app first (npx next build)");
+/** p95 of GET /api/tanks/[id]/series over the last `days`, after a warm-up. */
+async function timeSeries(session: HttpSession, tankId: number, days: number, log: (line: string) => void): Promise<number> {
+  const url = () => `/api/tanks/${tankId}/series?from=${Date.now() - days * DAY_MS}&to=${Date.now()}&points=2000`;
+  for (let i = 0; i < 5; i++) await (await session.fetch(url())).arrayBuffer();
+  const ms: number[] = [];
+  let points = 0;
+  let source = "";
+  for (let i = 0; i < 40; i++) {
+    const t0 = performance.now();
+    const res = await session.fetch(url());
+    if (res.status !== 200) throw new Error(`series answered ${res.status}: ${(await res.text()).slice(0, 300)}`);
+    const body = (await res.json()) as { source: string; series: { ph: { t: number[] } } };
+    ms.push(performance.now() - t0);
+    points = body.series.ph.t.length;
+    source = body.source;
+  }
+  log(`series: ${points} points over ${days} days from ${source}`);
+  return Math.round(p95(ms) * 10) / 10;
+}
+
+export async function* benchLive(opts: SectionOptions): AsyncIterable<Metric> {
+  const { seconds, log, sseClients: clientCount, sseHoldSeconds } = opts;
+  await ensureBuild(log);
   const db = await createSeededDatabase({ label: "bench-live" });
   const client = openDb(db);
-  const metrics: Metric[] = [];
   const streams: { close: () => void }[] = [];
   let webOutput = () => "";
   try {
     const now = Date.now();
-    log("adding 30 days of 1 Hz readings for one probe");
-    const benchTank = await addMonthOfOneHertz(client, now);
+    log("adding 30 days of 1 Hz readings and a year of rollups for one probe");
+    const benchTank = await addYearOfHistory(client, now);
 
     const broker = await startBroker(db);
     await startIngest(db, broker.url);
@@ -176,62 +213,54 @@ export async function benchLive(opts: { seconds: number; log: (line: string) => 
     const baseURL = `http://127.0.0.1:${port}`;
     const session = await sessionFor(baseURL, "night_manager");
 
-    // series_30d_ms: warm the route, then time it.
-    const url = () => `/api/tanks/${benchTank}/series?from=${Date.now() - 30 * DAY_MS}&to=${Date.now()}&points=2000`;
-    for (let i = 0; i < 5; i++) await (await session.fetch(url())).arrayBuffer();
-    const seriesMs: number[] = [];
-    let points = 0;
-    for (let i = 0; i < 40; i++) {
-      const t0 = performance.now();
-      const res = await session.fetch(url());
-      const body = (await res.json()) as { series: { ph: { t: number[] } } };
-      seriesMs.push(performance.now() - t0);
-      points = body.series.ph.t.length;
-    }
-    log(`series: ${points} points over 30 days`);
-    metrics.push({ metric: "series_30d_ms", value: Math.round(p95(seriesMs) * 10) / 10, unit: "ms" });
+    yield { metric: "series_30d_ms", value: await timeSeries(session, benchTank, 30, log), unit: "ms" };
+    yield { metric: "series_365d_ms", value: await timeSeries(session, benchTank, 365, log), unit: "ms" };
 
-    // publish_to_stream_p95_ms at 1,000 readings/s.
     const probes = await client.execute("SELECT p.serial, t.controller_id FROM probes p JOIN tanks t ON t.id = p.tank_id WHERE t.controller_id IS NOT NULL ORDER BY p.id");
     const serials = new Map<string, string[]>();
     for (const r of probes.rows) serials.set(String(r.controller_id), [...(serials.get(String(r.controller_id)) ?? []), String(r.serial)]);
     const credentials = JSON.parse(fs.readFileSync(db.credentialsFile, "utf8")) as { controllerId: string; username: string; password: string }[];
     const targets = credentials.map((c) => ({ ...c, serials: serials.get(c.controllerId) ?? [] }));
-    let measuringFrom = Infinity;
-    const latencies: number[] = [];
-    const watcher = await openStream(session, (readings) => {
-      const at = Date.now();
-      for (const r of readings) if (r.ts >= measuringFrom) latencies.push(at - r.ts);
-    });
-    streams.push(watcher);
-    const load = await pacedPublisher(broker.url, targets, 1000);
-    await sleep(3000);
-    measuringFrom = Date.now();
-    await sleep(seconds * 1000);
-    measuringFrom = Infinity;
-    await load.stop();
-    log(`publish → stream: ${latencies.length} readings in ${seconds} s`);
-    metrics.push({ metric: "publish_to_stream_p95_ms", value: Math.round(p95(latencies)), unit: "ms" });
-    watcher.close();
 
-    // sse_clients_held: many clients held for 60 s while a light load keeps them busy.
-    const light = await pacedPublisher(broker.url, targets, 100);
-    await sleep(2000);
+    // Hold many clients (in a process of their own) while devices publish 1,000 readings/s;
+    // one more client, here, times every reading.
     const rssBefore = treeRssMb(web.pid);
     log(`opening ${clientCount} SSE clients (web RSS ${rssBefore.toFixed(0)} MB)`);
-    for (let i = 0; i < clientCount; i += 50) {
-      streams.push(...(await Promise.all(Array.from({ length: Math.min(50, clientCount - i) }, () => openStream(session)))));
+    let measuring = false;
+    const latencies: number[] = [];
+    const watcher = await openStream(session, (readings) => {
+      if (!measuring) return;
+      const at = Date.now();
+      for (const r of readings) latencies.push(at - r.ts);
+    });
+    streams.push(watcher);
+    const heardWithinMs = Math.min(20_000, sseHoldSeconds * 500);
+    const holders = spawnTsx("sse-holders", "scripts/bench/sse-holders.ts", [baseURL, String(clientCount - 1), String(heardWithinMs)], {
+      env: { SSE_COOKIE: session.cookieHeader() },
+    });
+    await holders.waitForLine(/^open \d+$/, 120_000);
+    const load = await pacedPublisher(broker.url, targets, 1000);
+    await sleep(3000);
+    measuring = true;
+    const rssHolding = treeRssMb(web.pid); // every client open and served
+    const holdStarted = Date.now();
+    let rssPeak = 0;
+    while (Date.now() - holdStarted < sseHoldSeconds * 1000) {
+      await sleep(1000);
+      rssPeak = Math.max(rssPeak, treeRssMb(web.pid));
     }
-    const held = streams.slice(-clientCount) as Awaited<ReturnType<typeof openStream>>[];
-    await sleep(60_000);
-    const heardSince = Date.now() - 20_000;
-    const alive = held.filter((s) => s.open && s.lastHeardAt >= heardSince).length;
+    measuring = false;
     const rssAfter = treeRssMb(web.pid);
-    await light.stop();
-    log(`held ${alive}/${clientCount} clients for 60 s; web RSS ${rssAfter.toFixed(0)} MB`);
-    metrics.push({ metric: "sse_clients_held", value: alive, unit: "clients" });
-    metrics.push({ metric: "sse_rss_growth_mb", value: Math.round((rssAfter - rssBefore) * 10) / 10, unit: "MB" });
-    return metrics;
+    holders.kill("SIGTERM");
+    const alive = Number((await holders.waitForLine(/^alive (\d+)$/, 30_000))[1]) + (watcher.open && watcher.lastHeardAt >= Date.now() - heardWithinMs ? 1 : 0);
+    await load.stop();
+    log(`held ${alive}/${clientCount} clients for ${sseHoldSeconds} s; web RSS ${rssAfter.toFixed(0)} MB (peak ${rssPeak.toFixed(0)}); ${latencies.length} readings timed`);
+    void seconds; // the hold, not the per-section window, sets this section's length
+    yield { metric: "sse_clients_held", value: alive, unit: "clients" };
+    yield { metric: "sse_rss_growth_mb", value: Math.round((rssAfter - rssBefore) * 10) / 10, unit: "MB" };
+    // Growth over the hold itself, once every client was open: what a leak would show.
+    yield { metric: "sse_rss_growth_during_hold_mb", value: Math.round((rssAfter - rssHolding) * 10) / 10, unit: "MB" };
+    yield { metric: "publish_to_stream_p95_ms", value: Math.round(p95(latencies)), unit: "ms" };
   } catch (err) {
     log(`failed; the web's last output:\n${webOutput().split("\n").slice(-30).join("\n")}`);
     throw err;
@@ -245,7 +274,6 @@ export async function benchLive(opts: { seconds: number; log: (line: string) => 
 
 export const liveSection: BenchSection = {
   name: "live",
-  async *run({ seconds, log }) {
-    for (const m of await benchLive({ seconds, log })) yield m;
-  },
+  metrics: { series_30d_ms: "ms", series_365d_ms: "ms", sse_clients_held: "clients", sse_rss_growth_mb: "MB", sse_rss_growth_during_hold_mb: "MB", publish_to_stream_p95_ms: "ms" },
+  run: benchLive,
 };

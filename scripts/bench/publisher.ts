@@ -3,7 +3,8 @@
 // every row is distinct. The simulator's physics is left out: the bench measures the pipeline.
 //
 // The loop is closed end to end: it listens to the live reading stream (as svc-web) and keeps
-// at most `maxOutstanding` samples published but not yet committed, so the rate it settles at
+// at most `maxOutstanding` samples published but not yet committed (enough for the ingest's
+// time-sized batches at the rates aimed at), so the rate it settles at
 // is what the whole chain sustains, with the broker's queue bounded instead of growing forever.
 import mqtt, { type MqttClient } from "mqtt";
 import { readingBatch, type RawMessage } from "../../ingest/payloads";
@@ -26,7 +27,7 @@ export class LoadPublisher {
   constructor(
     private readonly url: string,
     private readonly targets: PublisherTarget[],
-    private readonly opts = { windowPerConnection: 50, maxOutstanding: 8000, startTs: Date.now() - 120_000 },
+    private readonly opts = { windowPerConnection: 100, maxOutstanding: 30_000, startTs: Date.now() - 120_000 },
   ) {}
 
   private connect(options: mqtt.IClientOptions): Promise<MqttClient> {

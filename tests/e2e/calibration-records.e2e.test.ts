@@ -1,6 +1,7 @@
 // Calibration records entered by hand in Chromium: a calibration done elsewhere with its
-// certificate (type checked by content, not name), a spot check past tolerance, and a CSV of
-// spot checks that imports nothing until every row is right.
+// certificate (type checked by content, not name), a buffer's certificate table typed on screen,
+// a spot check past tolerance, a CSV of spot checks that imports nothing until every row is
+// right, and a spot check corrected and deleted.
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser } from "playwright-core";
 import { createClient, type Client } from "@libsql/client";
@@ -68,6 +69,57 @@ describe("calibration records entered by hand", () => {
     await context.close();
   });
 
+  it("takes a buffer's certificate table on screen, with field errors until it is right", async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 1100 } });
+    const page = await context.newPage();
+    await signInAs(page, baseURL, "grower");
+
+    // The guided run's form: an unfinished table is refused on screen, and no run starts.
+    const tank = await db.execute("SELECT id FROM tanks WHERE name = 'L2 Oakleaf'");
+    const runsBefore = Number((await db.execute("SELECT count(*) AS n FROM calibration_runs")).rows[0].n);
+    await page.goto(`${baseURL}/calibrations/new?tank=${Number(tank.rows[0].id)}`);
+    await page.getByRole("radio", { name: /pH/ }).check();
+    await page.getByRole("combobox", { name: "Second buffer" }).selectOption({ label: "Own table from a certificate" });
+    const runTable = page.locator('[data-buffer-table="Second buffer"]');
+    await runTable.getByLabel("Row 1 pH").fill("4.00");
+    await page.getByRole("button", { name: "Start the calibration run" }).click();
+    await runTable.getByText("Enter the pH").first().waitFor();
+    await page.getByRole("alert").filter({ hasText: "Second buffer: Row 2 of the buffer table: Enter the pH" }).waitFor();
+    await shot(page, "calibration-19-run-certificate-table-errors");
+    expect(Number((await db.execute("SELECT count(*) AS n FROM calibration_runs")).rows[0].n)).toBe(runsBefore);
+
+    // The manual entry form: errors under the fields, then saved once right.
+    await page.goto(`${baseURL}/calibrations/manual`);
+    await page.getByLabel("Probe").selectOption(String(probe.id));
+    await page.locator("input[name=slopePct]").fill("98.1");
+    await page.locator("input[name=offsetMv]").fill("-2.4");
+    await page.getByLabel("Buffer or standard").selectOption({ label: "Own table from a certificate" });
+    const table = page.locator('[data-buffer-table="Buffer 1"]');
+    for (const [i, t, ph] of [[1, "15", "7.04"], [2, "20", "7.02"], [3, "20", "7.00"], [4, "30", "69.9"]] as const) {
+      await table.getByLabel(`Row ${i} temperature °C`).fill(t);
+      await table.getByLabel(`Row ${i} pH`).fill(ph);
+    }
+    await page.getByLabel("Lot").fill("CT-2291");
+    await page.getByLabel("Expiry date").fill("2027-08-01");
+    await page.getByLabel("Temperature °C", { exact: true }).fill("22");
+    await page.getByRole("button", { name: "Save the calibration record" }).click();
+    await table.getByText("20 °C is listed twice; keep one row per temperature").waitFor();
+    await table.getByText("Between pH 0 and 14; check the certificate").waitFor();
+    expect(await table.locator("[aria-invalid=true]").count()).toBe(2);
+    await shot(page, "calibration-20b-certificate-table-errors");
+    await table.getByLabel("Row 3 temperature °C").fill("25");
+    await table.getByLabel("Row 4 pH").fill("6.99");
+    await page.getByRole("button", { name: "Save the calibration record" }).click();
+    await page.getByText("Recorded and accepted").waitFor();
+    const point = await db.execute({
+      sql: "SELECT cp.standard, cp.expected FROM calibration_points cp JOIN calibration_runs r ON r.id = cp.run_id WHERE r.probe_id = ? ORDER BY cp.id DESC LIMIT 1",
+      args: [probe.id],
+    });
+    expect(JSON.parse(String(point.rows[0].standard))).toEqual({ points: [[15, 7.04], [20, 7.02], [25, 7], [30, 6.99]] });
+    expect(Number(point.rows[0].expected)).toBeCloseTo(7.012, 6); // 22 °C, linear between 20 and 25 °C
+    await context.close();
+  });
+
   it("flags a spot check past the tank's tolerance and imports a CSV all or nothing", async () => {
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
@@ -100,6 +152,44 @@ describe("calibration records entered by hand", () => {
     await page.getByTestId("spot-checks").waitFor();
     expect(await page.locator('[data-past-tolerance="true"]').count()).toBeGreaterThan(0);
     await shot(page, "calibration-25-probe-spot-checks");
+    await context.close();
+  });
+
+  it("a grower corrects and deletes a spot check on the probe page, each audited; the night manager cannot", async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await context.newPage();
+    await signInAs(page, baseURL, "grower");
+    await page.goto(`${baseURL}/probes/${probe.id}`);
+    const first = page.locator("[data-spot-check]").first();
+    const id = Number(await first.getAttribute("data-spot-check"));
+    await first.getByRole("button", { name: /^Edit the spot check/ }).click();
+    const dialog = page.getByRole("dialog", { name: "Correct the spot check" });
+    await dialog.getByLabel(/Meter reading/).fill("16");
+    await dialog.getByRole("button", { name: "Save the correction" }).click();
+    await dialog.getByText("A pH reading must be between 0 and 14").waitFor();
+    await shot(page, "calibration-26-spot-check-correct");
+    await dialog.getByLabel(/Meter reading/).fill("6.12");
+    await dialog.getByLabel("Note").fill("Corrected: misread the meter");
+    await dialog.getByRole("button", { name: "Save the correction" }).click();
+    await dialog.waitFor({ state: "hidden" });
+    await page.locator(`[data-spot-check="${id}"]`).getByText("Corrected: misread the meter").waitFor();
+    expect(Number((await db.execute({ sql: "SELECT meter_value FROM spot_checks WHERE id = ?", args: [id] })).rows[0].meter_value)).toBe(6.12);
+
+    await page.locator(`[data-spot-check="${id}"]`).getByRole("button", { name: /^Delete the spot check/ }).click();
+    await page.getByRole("dialog", { name: "Delete this spot check?" }).getByRole("button", { name: "Delete the spot check" }).click();
+    await page.locator(`[data-spot-check="${id}"]`).waitFor({ state: "detached" });
+    const audit = await db.execute({ sql: "SELECT action FROM audit_log WHERE entity = 'spot_check' AND entity_id = ? ORDER BY id", args: [id] });
+    expect(audit.rows.map((r) => r.action).slice(-2)).toEqual(["spot-check.edit", "spot-check.delete"]);
+
+    const night = await sessionFor(baseURL, "night_manager");
+    const other = Number((await db.execute({ sql: "SELECT id FROM spot_checks WHERE probe_id = ? LIMIT 1", args: [probe.id] })).rows[0].id);
+    expect((await night.fetch(`/api/spot-checks/${other}`, { method: "DELETE" })).status).toBe(403);
+    const nightPage = await context.browser()!.newPage();
+    await signInAs(nightPage, baseURL, "night_manager");
+    await nightPage.goto(`${baseURL}/probes/${probe.id}`);
+    await nightPage.getByTestId("spot-checks").waitFor();
+    expect(await nightPage.getByRole("button", { name: /^Edit the spot check/ }).count()).toBe(0);
+    await nightPage.close();
     await context.close();
   });
 });

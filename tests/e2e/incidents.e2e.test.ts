@@ -70,7 +70,22 @@ describe("incidents", () => {
     const { context, page } = await harness.signedIn("owner", { viewport: { width: 1440, height: 1100 }, acceptDownloads: true });
     await page.goto(`${baseURL}/incidents`);
     await page.locator("[data-table=incident-history] tbody tr").first().waitFor();
+    // Counts per day as stacked bars by cause; the legend names each series with its total, no "—".
+    await page.locator("[data-incident-trends=cause] canvas").first().waitFor();
+    const legend = await page.locator("[data-trend-legend] li").allTextContents();
+    expect(legend.length).toBeGreaterThan(0);
+    expect(legend.every((l) => /\d+$/.test(l) && !l.includes("—"))).toBe(true);
     await shot(page, "incident-history");
+    await page.getByRole("button", { name: "By tank" }).click();
+    await page.locator("[data-incident-trends=tank] canvas").first().waitFor();
+    const byTank = page.locator("[data-incident-trends=tank]");
+    const canvasBox = (await byTank.locator("canvas").first().boundingBox())!;
+    // Into the plot, then along it: uPlot places its cursor from the second mouse move over the plot on.
+    await page.mouse.move(canvasBox.x + canvasBox.width - 20, canvasBox.y + canvasBox.height / 2);
+    await page.mouse.move(canvasBox.x + canvasBox.width - 30, canvasBox.y + canvasBox.height / 2, { steps: 4 });
+    await expect.poll(() => byTank.locator("[data-trend-readout]").textContent()).not.toMatch(/Point at a day/);
+    await shot(page, "incident-history-by-tank");
+    await page.getByRole("button", { name: "By cause" }).click();
     await page.locator("select[name=cause]").selectOption("stale");
     await page.getByRole("button", { name: "Apply" }).click();
     await page.waitForURL(/cause=stale/);

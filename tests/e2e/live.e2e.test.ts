@@ -202,7 +202,7 @@ describe("live monitoring", () => {
     await shot(page, "live-tank-charts");
 
     await page.getByRole("button", { name: "30 d", exact: true }).click();
-    await expect.poll(() => page.getByTestId("series-meta").textContent(), { timeout: 30_000 }).toContain("per-minute summaries");
+    await expect.poll(() => page.getByTestId("series-meta").textContent(), { timeout: 30_000 }).toContain("hourly summaries");
     await expect.poll(async () => Number(await ph.getAttribute("data-points")), { timeout: 30_000 }).toBeGreaterThan(100);
     await shot(page, "live-tank-charts-30d");
     await context.close();

@@ -29,6 +29,7 @@ const SAMPLE_TABLE: Record<string, string> = {
   sites: "sites",
   devices: "devices",
   zones: "zones",
+  "spot-checks": "spot_checks",
 };
 
 function findRoutes(dir = path.join(ROOT, "app/api")): { template: string; methods: string[] }[] {
@@ -68,9 +69,18 @@ describe("role matrix", () => {
           ? `SELECT id FROM ${table} WHERE org_id = ${orgId} ORDER BY id LIMIT 1`
           : table === "tanks"
             ? `SELECT t.id FROM tanks t JOIN sites s ON s.id = t.site_id WHERE s.org_id = ${orgId} ORDER BY t.id LIMIT 1`
-            : `SELECT id FROM ${table} ORDER BY id LIMIT 1`;
+            : table === "spot_checks"
+              ? `SELECT c.id FROM spot_checks c JOIN probes p ON p.id = c.probe_id JOIN tanks t ON t.id = p.tank_id JOIN sites s ON s.id = t.site_id WHERE s.org_id = ${orgId} ORDER BY c.id LIMIT 1`
+              : `SELECT id FROM ${table} ORDER BY id LIMIT 1`;
       const r = await db.execute(scoped);
       if (r.rows[0]) sample.set(segment, Number(r.rows[0].id));
+    }
+    if (!sample.has("spot-checks")) {
+      // The demo seeds no spot checks: one to edit and delete.
+      const r = await db.execute(
+        `INSERT INTO spot_checks (probe_id, taken_at, meter_value) SELECT p.id, ${Date.now()}, 6.0 FROM probes p JOIN tanks t ON t.id = p.tank_id JOIN sites s ON s.id = t.site_id WHERE s.org_id = ${orgId} AND p.kind = 'ph' ORDER BY p.id LIMIT 1 RETURNING id`,
+      );
+      sample.set("spot-checks", Number(r.rows[0].id));
     }
     db.close();
   });

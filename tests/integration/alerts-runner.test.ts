@@ -42,7 +42,10 @@ type Kind = "ph" | "ec" | "temp";
 const tanks = new Map<string, { id: number; orgId: number; probes: Record<Kind, number>; band: Record<Kind, [number, number]> }>();
 /** Value overrides per "tank name:kind", as a function of time. */
 const faults = new Map<string, (t: number) => number>();
+/** Held tanks ("L1") or single held probes ("G1:ph"): their readings are flagged held. */
 const held = new Set<string>();
+/** Probes ("tank name:kind") that stopped reporting. */
+const silent = new Set<string>();
 
 async function mail(to: string, subjectPart: string): Promise<Sunk[]> {
   const res = await fetch(`${sinkUrl}/messages?to=${encodeURIComponent(to)}`);
@@ -54,6 +57,7 @@ function batchAt(at: number): CommittedReading[] {
   const out: CommittedReading[] = [];
   for (const [name, tank] of tanks) {
     for (const kind of ["ph", "ec", "temp"] as const) {
+      if (silent.has(`${name}:${kind}`)) continue;
       const [lo, hi] = tank.band[kind];
       const wobble = Math.sin(at / (5 * MIN) + tank.id);
       const normal = (lo + hi) / 2 + wobble * (hi - lo) * 0.05;
@@ -66,7 +70,7 @@ function batchAt(at: number): CommittedReading[] {
         ts: at,
         raw: kind === "ph" ? (7 - value) * 59 + wobble : kind === "ec" ? value + wobble * 3 : value,
         value,
-        quality: held.has(name) ? "held" : "ok",
+        quality: held.has(name) || held.has(`${name}:${kind}`) ? "held" : "ok",
       });
     }
   }
@@ -312,10 +316,32 @@ describe("alert runner", () => {
     await runUntil(t + 8 * MIN);
     const [incident] = await incidentsOf("G3", "out-of-band");
     const notified = (await eventsOf(incident.id)).filter((e) => e.kind === "notified");
-    expect(notified.map((e) => e.detail)).toEqual(["Nobody to e-mail: no active user of the routed role with e-mail notifications on"]);
+    expect(notified.map((e) => e.detail)).toEqual(["Nobody to e-mail: no active night manager on the night shift at North Greenhouse has e-mail notifications on"]);
     expect(await mail("night@larkspur.example", "G3 Pak choi")).toHaveLength(0);
     await db.update(schema.users).set({ notifyEmail: true }).where(eq(schema.users.role, "night_manager"));
     faults.delete("G3:ph");
+  });
+
+  it("a hold on one probe silences only that probe; the tank's other probes still alert", async () => {
+    const { placeHold, releaseHold } = await import("@/db/queries/holds");
+    const grower = (await db.select().from(schema.users).where(eq(schema.users.role, "grower")))[0];
+    const g1 = tanks.get("G1")!;
+    const from = t;
+    const { hold } = await placeHold(db, grower, { tankId: g1.id, probeId: g1.probes.ph, reason: "pH probe cleaning", minutes: 30 }, t);
+    held.add("G1:ph");
+    faults.set("G1:ph", () => 4.0); // the held pH probe sits in pH 4 buffer: silent
+    const [lo, hi] = g1.band.ec;
+    faults.set("G1:ec", (at) => Math.min(hi + 300, (lo + hi) / 2 + (200 * (at - from)) / MIN)); // EC drifts out of band (under the rate limit)
+    silent.add("G1:temp"); // and the temperature probe stops reporting
+    await runUntil(from + 8 * MIN);
+    const opened = await db.select().from(schema.incidents).where(and(eq(schema.incidents.tankId, g1.id), gt(schema.incidents.openedAt, from)));
+    expect(opened.map((i) => `${i.cause} ${i.measure}`).sort()).toEqual(["out-of-band ec", "stale temp"]);
+
+    await releaseHold(db, { orgId: grower.orgId, user: grower }, hold.id, t);
+    held.delete("G1:ph");
+    silent.delete("G1:temp");
+    for (const k of ["G1:ph", "G1:ec"]) faults.delete(k);
+    await runUntil(t + 2 * MIN);
   });
 
   it("sends the morning digest of calibrations due once, at the start of the day shift", async () => {

@@ -2,7 +2,7 @@
 // SQLite file. Readings are written with explicit timestamps (the probe's raw mV or µS as a
 // device would publish them), so nothing waits on the wall clock.
 import { beforeAll, beforeEach, describe, expect, it } from "vitest";
-import { and, eq, isNull, sql } from "drizzle-orm";
+import { and, eq, inArray, isNull, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import * as schema from "@/db/schema";
 import { abandonRun, capturePoint, completeRun, confirmStep, getRunView, startRun } from "@/db/queries/calibration-runs";
@@ -10,7 +10,7 @@ import { calibrationInForce } from "@/db/queries/calibration-scope";
 import { createManualCalibration } from "@/db/queries/calibration-manual";
 import { probeRecord } from "@/db/queries/calibration-history";
 import { calibrationCompliance } from "@/db/queries/calibration-compliance";
-import { addSpotCheck, importSpotChecksCsv, listSpotChecks } from "@/db/queries/spot-checks";
+import { addSpotCheck, deleteSpotCheck, editSpotCheck, importSpotChecksCsv, listSpotChecks } from "@/db/queries/spot-checks";
 import { ApiError } from "@/app/_server/errors";
 import { DAY_MS, bufferPh, ecStandardAt, nernstSlopeMv, phFromMv } from "@/lib/calibration";
 import { useTestDatabase } from "./helpers/use-test-database";
@@ -234,6 +234,32 @@ describe("guided pH run", () => {
     expect(after.status).toBe("active");
   });
 
+  it("takes a typed effective time for a run entered late, and corrects the readings stored since", async () => {
+    const at = T0 + 13 * DAY_MS;
+    for (const ts of [at - 60 * 60 * SEC, at - 30 * 60 * SEC]) {
+      await feedTemperature(ts, 20);
+      await db.insert(schema.readings).values({ probeId: ph, ts, raw: 12, value: 6.5, quality: "ok" });
+    }
+    const { runId, t } = await phRun(at, { slopePct: 97, offsetMv: 2 }, { asFound: false });
+    const future = await refusal(completeRun(db, user, runId, { effectiveAt: t + 60 * SEC }, t));
+    expect(future.status).toBe(422);
+    expect(future.fields).toMatchObject({ effectiveAt: "Not in the future: enter when the run was done" });
+    const beforePrevious = await refusal(completeRun(db, user, runId, { effectiveAt: T0 + 10 * DAY_MS }, t));
+    expect(beforePrevious.status).toBe(422);
+    expect(beforePrevious.fields?.effectiveAt).toMatch(/^After the previous accepted calibration \(/);
+
+    const effectiveAt = at - 45 * 60 * SEC;
+    const saved = await completeRun(db, user, runId, { effectiveAt }, t);
+    expect(saved.run).toMatchObject({ status: "accepted", effectiveAt, completedAt: t });
+    expect(saved.recomputed?.updated).toBeGreaterThan(0);
+    const rows = await db.select().from(schema.readings).where(and(eq(schema.readings.probeId, ph), inArray(schema.readings.ts, [at - 60 * 60 * SEC, at - 30 * 60 * SEC]))).orderBy(schema.readings.ts);
+    expect(rows[0].calibrationRunId).not.toBe(runId); // before the effective time: the calibration then in force
+    expect(rows[1].calibrationRunId).toBe(runId);
+    expect(rows[1].value).toBeCloseTo(phFromMv(12, 20, { slopePct: saved.run.slopePct!, offsetMv: saved.run.offsetMv! }), 9);
+    const [entry] = await db.select().from(schema.auditLog).where(and(eq(schema.auditLog.entity, "calibration_run"), eq(schema.auditLog.entityId, runId), eq(schema.auditLog.action, "calibration.save")));
+    expect(entry.detail).toMatchObject({ verdict: "accepted", effectiveAt: new Date(effectiveAt).toISOString() });
+  });
+
   it("keeps other organisations out", async () => {
     const { runId } = await startRun(db, user, { tankId, probeId: ph }, T0 + 12 * DAY_MS);
     expect((await refusal(getRunView(db, otherOrg.orgId, runId))).status).toBe(404);
@@ -294,6 +320,20 @@ describe("manual calibration entries", () => {
     expect(err.message).toMatch(/expired/);
   });
 
+  it("refuses a certificate table that is not plausible, naming the row and the field", async () => {
+    const backwards = JSON.stringify({ points: [[25, 7.0], [20, 7.02]] });
+    const manual = await refusal(
+      createManualCalibration(db, user, { probeId: ph, performedAt: T0 + 15 * DAY_MS, slopePct: 99, offsetMv: 0, standards: [{ standard: backwards, lot: "C1", expiresOn: "2027-06-01", tempC: 22 }] }, T0 + 15 * DAY_MS),
+    );
+    expect(manual.status).toBe(422);
+    expect(manual.message).toBe("Row 2 of the buffer table: Temperatures must go up row by row: 20 °C comes after 25 °C");
+    expect(manual.fields).toEqual({ "standards.0.standard": manual.message });
+    const guided = await refusal(startRun(db, user, { tankId, probeId: ph, standards: ["tech-7.00", JSON.stringify({ points: [[20, 4.0], [25, 41]] })] }, T0 + 15 * DAY_MS));
+    expect(guided.status).toBe(422);
+    expect(guided.fields).toEqual({ "standards.1": "Row 2 of the buffer table: Between pH 0 and 14; check the certificate" });
+    expect(await db.select().from(schema.calibrationRuns).where(eq(schema.calibrationRuns.status, "in_progress"))).toEqual([]);
+  });
+
   it("rejects a cell constant more than 10 % from nominal", async () => {
     const { run } = await createManualCalibration(db, user, { probeId: ec, performedAt: T0 + 16 * DAY_MS, cellConstant: 1.15, standards: [{ standard: "kcl-0.01M", lot: "K", expiresOn: "2027-04-30" }] }, T0 + 16 * DAY_MS);
     expect(run.status).toBe("rejected"); // ±10 % of nominal, common practice (DOMAIN.md section 3)
@@ -344,6 +384,25 @@ describe("spot checks", () => {
     const result = await importSpotChecksCsv(db, user, good, at);
     expect(result).toEqual({ imported: 2, pastTolerance: 1 }); // 1050 vs 1000 is within 100 µS/cm; 1250 is not
     expect((await listSpotChecks(db, user.orgId, ec)).rows.length).toBe(before + 2);
+  });
+
+  it("edits a spot check (compared again) and deletes one, each with an audit entry; other farms get 404", async () => {
+    const added = await addSpotCheck(db, user, { probeId: ph, takenAt: at, meterValue: 6.3, note: "typo" }, at);
+    expect(added.spotCheck.pastTolerance).toBe(true);
+    const edited = await editSpotCheck(db, user, added.spotCheck.id, { takenAt: at + 70 * SEC, meterValue: 6.35, note: "meter 2" }, at + DAY_MS);
+    expect(edited.spotCheck).toMatchObject({ id: added.spotCheck.id, tidewellValue: 6.4, pastTolerance: false, note: "meter 2" });
+    expect(edited.spotCheck.difference).toBeCloseTo(-0.05, 9);
+    expect((await refusal(editSpotCheck(db, user, added.spotCheck.id, { takenAt: at, meterValue: 15 }, at))).fields).toEqual({ meterValue: "A pH reading must be between 0 and 14" });
+    expect((await refusal(editSpotCheck(db, otherOrg, added.spotCheck.id, { takenAt: at, meterValue: 6 }, at))).status).toBe(404);
+    expect((await refusal(deleteSpotCheck(db, otherOrg, added.spotCheck.id, at))).status).toBe(404);
+
+    await deleteSpotCheck(db, user, added.spotCheck.id, at + 2 * DAY_MS);
+    expect((await listSpotChecks(db, user.orgId, ph)).rows.map((r) => r.id)).not.toContain(added.spotCheck.id);
+    expect((await refusal(deleteSpotCheck(db, user, added.spotCheck.id, at))).status).toBe(404);
+    const trail = await db.select().from(schema.auditLog).where(and(eq(schema.auditLog.entity, "spot_check"), eq(schema.auditLog.entityId, added.spotCheck.id))).orderBy(schema.auditLog.id);
+    expect(trail.map((a) => [a.action, a.userId])).toEqual([["spot-check.add", user.id], ["spot-check.edit", user.id], ["spot-check.delete", user.id]]);
+    expect(trail[1].detail).toMatchObject({ before: { meterValue: 6.3, note: "typo" }, after: { meterValue: 6.35, note: "meter 2" } });
+    expect(trail[2].detail).toMatchObject({ deleted: { meterValue: 6.35 } });
   });
 
   it("refuses serials of another organisation as unknown", async () => {

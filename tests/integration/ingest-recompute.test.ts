@@ -78,6 +78,20 @@ describe("recomputing readings after a calibration", () => {
     });
     expect(num(mismatched.rows[0].n)).toBe(0);
     expect(result.rollupMinutes).toBe(changed.length);
+    // Every rollup sits on its minute, and every hour from the effective one on is exactly the
+    // aggregate of its minutes.
+    const unaligned = await client.execute({ sql: "SELECT count(*) AS n FROM rollups WHERE probe_id = ? AND minute % 60000 != 0", args: [ph.id] });
+    expect(num(unaligned.rows[0].n)).toBe(0);
+    const hours = await client.execute({
+      sql: `SELECT count(*) AS n, sum(CASE WHEN a.n IS NULL OR abs(h.min - a.lo) > 1e-9 OR abs(h.max - a.hi) > 1e-9 OR abs(h.sum - a.total) > 1e-6 OR h.count != a.n THEN 1 ELSE 0 END) AS bad
+              FROM rollups_hourly h LEFT JOIN (
+              SELECT (minute / 3600000) * 3600000 AS hour, min(min) AS lo, max(max) AS hi, sum(sum) AS total, sum(count) AS n
+                FROM rollups WHERE probe_id = ? GROUP BY 1) a ON a.hour = h.hour
+             WHERE h.probe_id = ? AND h.hour >= ?`,
+      args: [ph.id, ph.id, Math.floor(effectiveAt / 3_600_000) * 3_600_000],
+    });
+    expect(num(hours.rows[0].n)).toBeGreaterThan(40);
+    expect(num(hours.rows[0].bad)).toBe(0);
 
     // Withdrawing the run puts the previous calibration back.
     await client.execute({ sql: "UPDATE calibration_runs SET status = 'rejected', effective_at = NULL WHERE id = ?", args: [runId] });

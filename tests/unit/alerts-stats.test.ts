@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { countsOverTime, median, quantile, responseTimes } from "@/lib/alerts/stats";
+import { countsOverTime, median, quantile, responseTimes, stackedTops } from "@/lib/alerts/stats";
 
 const MIN = 60_000;
 const DAY = 86_400_000;
@@ -64,5 +64,23 @@ describe("countsOverTime", () => {
   it("has every bucket even when nothing happened", () => {
     const c = countsOverTime([], { from: 0, to: 3 * DAY, bucketMs: DAY });
     expect(c).toEqual({ starts: [0, DAY, 2 * DAY], series: [] });
+  });
+});
+
+describe("stackedTops", () => {
+  it("stacks each series on the ones before it, per day; empty days draw no bar", () => {
+    const data = {
+      starts: [0, 1, 2],
+      series: [
+        { key: "stale", total: 3, counts: [2, 0, 1] },
+        { key: "out-of-band", total: 2, counts: [1, 0, 1] },
+        { key: "other", total: 1, counts: [0, 0, 1] },
+      ],
+    };
+    expect(stackedTops(data)).toEqual([
+      [2, null, 1],
+      [3, null, 2],
+      [3, null, 3],
+    ]);
   });
 });

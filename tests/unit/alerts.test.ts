@@ -552,6 +552,20 @@ describe("stale", () => {
     const ts = [...ticks(0, 870, () => ({ lastReadingS: 0, hold: held })), ...ticks(900, 960, () => ({ lastReadingS: 0, hold: released }))];
     expect(brief(tick(ts).events)).toEqual(["fire stale @900"]);
   });
+
+  it("a hold on one probe silences only that probe: the tank's other probes still go stale", () => {
+    const hold = { active: true, probeIds: ["ph-1"], placedAt: T0, plannedEndAt: T0 + 3600 * SEC, releasedAt: null };
+    const r = evaluateTime({
+      now: T0 + 600 * SEC,
+      probes: (["ph", "ec", "temp"] as const).map((m) => ({ probeId: `${m}-1`, measure: m, state: null, lastReadingAt: T0, calibration: CAL_OK })),
+      tank: { hold, dosingInhibit: NO_INHIBIT },
+      tankState: null,
+    });
+    expect(r.events.map((e) => `${e.type} ${e.cause} ${e.probeId}`)).toEqual(["fire stale ec-1", "fire stale temp-1"]);
+    // The same hold on the whole tank silences all three.
+    const whole = evaluateTime({ now: T0 + 600 * SEC, probes: r.probes.map((p) => ({ ...p, state: null, lastReadingAt: T0, calibration: CAL_OK })), tank: { hold: { ...hold, probeIds: null }, dosingInhibit: NO_INHIBIT }, tankState: null });
+    expect(whole.events).toEqual([]);
+  });
 });
 
 describe("calibration causes", () => {

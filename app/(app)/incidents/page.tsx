@@ -8,7 +8,7 @@ import { incidentQuery, toFilter, toSearch } from "@/app/api/incidents/filter";
 import { Card, PageHeader } from "@/components/ui/card";
 import { HistoryFilters } from "@/components/incidents/history-filters";
 import { HistoryTable, type HistoryRow } from "@/components/incidents/history-table";
-import { TrendChart } from "@/components/incidents/trend-chart";
+import { IncidentTrends } from "@/components/incidents/trend-chart";
 import { CAUSES, describeCause, formatDuration, type Cause } from "@/lib/alerts";
 import { countsOverTime, responseTimes, type Spread } from "@/lib/alerts/stats";
 
@@ -88,14 +88,9 @@ export default async function IncidentsPage({ searchParams }: { searchParams: Pr
           Times count from when an incident opened. Incidents that resolved themselves count towards time to resolve. Alerts are an aid, not a substitute for walking the tanks.
         </Card>
       </div>
-      <div className="mb-5 grid gap-4 xl:grid-cols-2">
-        <Card className="p-4">
-          <TrendChart data={byCause} names={causeNames} label="Incidents per cause, per day" />
-        </Card>
-        <Card className="p-4">
-          <TrendChart data={byTank} names={{ "other tanks": "Other tanks" }} label="Incidents per tank, per day" />
-        </Card>
-      </div>
+      <Card className="mb-5 p-4">
+        <IncidentTrends byCause={byCause} byTank={byTank} causeNames={causeNames} />
+      </Card>
       <HistoryTable rows={table} />
     </>
   );

@@ -36,6 +36,52 @@ const EVENT_NAME: Record<OrgEvent["type"], string> = {
   "calibration.saved": "calibration",
 };
 
+/**
+ * A live batch encoded once for every client that streams it (a thousand open walls would
+ * otherwise each map and stringify the same readings): the event id is its newest timestamp.
+ */
+/**
+ * Every open stream's pending readings are written by one shared timer every COALESCE_MS: with a
+ * thousand walls open, one write per client per interval instead of one per tank batch.
+ */
+const COALESCE_MS = 25;
+let flushers: (() => void)[] = [];
+function flushSoon(flush: () => void) {
+  if (flushers.length === 0) {
+    setTimeout(() => {
+      const due = flushers;
+      flushers = [];
+      for (const f of due) f();
+    }, COALESCE_MS);
+  }
+  flushers.push(flush);
+}
+
+function concat(chunks: Uint8Array[]): Uint8Array {
+  let length = 0;
+  for (const c of chunks) length += c.length;
+  const out = new Uint8Array(length);
+  let at = 0;
+  for (const c of chunks) {
+    out.set(c, at);
+    at += c.length;
+  }
+  return out;
+}
+
+const encoded = new WeakMap<LiveMessage, { id: number; chunk: Uint8Array } | null>();
+function encodedReadings(m: Extract<LiveMessage, { kind: "readings" }>) {
+  let hit = encoded.get(m);
+  if (hit === undefined) {
+    const readings: StreamReading[] = m.readings.map((r) => ({ probeId: r.probeId, kind: r.kind, ts: r.ts, value: r.value, quality: r.quality }));
+    let id = 0;
+    for (const r of readings) if (r.ts > id) id = r.ts;
+    hit = readings.length ? { id, chunk: sseEvent("readings", { tankId: m.tankId, readings }, id) } : null;
+    encoded.set(m, hit);
+  }
+  return hit;
+}
+
 function lastEventId(req: Request): number | undefined {
   const raw = req.headers.get("last-event-id");
   if (!raw || !/^\d{1,16}$/.test(raw.trim())) return undefined;
@@ -72,9 +118,22 @@ export const GET = guarded({ roles: ALL_ROLES, query: streamQuery }, async ({ us
           cleanup();
         }
       };
+      // Live readings go out together every COALESCE_MS (one write instead of one per batch).
+      let pending: Uint8Array[] = [];
+      const flushPending = () => {
+        const chunks = pending;
+        pending = [];
+        if (chunks.length === 1) send(chunks[0]);
+        else if (chunks.length > 1) send(concat(chunks));
+      };
+      const sendSoon = (chunk: Uint8Array) => {
+        if (pending.length === 0) flushSoon(flushPending);
+        pending.push(chunk);
+      };
 
       const sendReadings = (tankId: number, readings: StreamReading[]) => {
         if (!readings.length) return;
+        flushPending();
         lastId = Math.max(lastId, ...readings.map((r) => r.ts));
         send(sseEvent("readings", { tankId, readings }, lastId));
       };
@@ -84,11 +143,19 @@ export const GET = guarded({ roles: ALL_ROLES, query: streamQuery }, async ({ us
           void backfill(lastId - RESUME_SLACK_MS);
         } else if (m.kind === "readings") {
           if (m.orgId !== scope.orgId || !tankInScope(scope, m.tankId)) return;
-          sendReadings(
-            m.tankId,
-            m.readings.map((r) => ({ probeId: r.probeId, kind: r.kind, ts: r.ts, value: r.value, quality: r.quality })),
-          );
+          const shared = encodedReadings(m);
+          // Usually the batch is newer than what this client has: every client gets the same bytes.
+          if (shared && shared.id >= lastId) {
+            lastId = shared.id;
+            sendSoon(shared.chunk);
+          } else {
+            sendReadings(
+              m.tankId,
+              m.readings.map((r) => ({ probeId: r.probeId, kind: r.kind, ts: r.ts, value: r.value, quality: r.quality })),
+            );
+          }
         } else if (m.event.orgId === scope.orgId && tankInScope(scope, m.event.tankId)) {
+          flushPending();
           send(sseEvent(EVENT_NAME[m.event.type], m.event));
         }
       };

@@ -3,6 +3,11 @@ import type { Condition } from "../tracker";
 
 export interface HoldInfo {
   active: boolean;
+  /**
+   * Set when the active hold covers single probes only (a probe out for cleaning): those
+   * probes' rules are silent, the tank's other probes keep alerting. Unset: the whole tank.
+   */
+  probeIds?: readonly string[] | null;
   placedAt?: number | null;
   plannedEndAt?: number | null;
   releasedAt?: number | null;

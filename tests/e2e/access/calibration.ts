@@ -18,4 +18,6 @@ export const ACCESS: AccessTable = {
   "GET /api/probes/[id]/spot-checks": ALL,
   "POST /api/probes/[id]/spot-checks": CHANGERS,
   "POST /api/spot-checks/import": CHANGERS,
+  "PUT /api/spot-checks/[id]": CHANGERS,
+  "DELETE /api/spot-checks/[id]": CHANGERS,
 };

@@ -118,8 +118,19 @@ export async function countReadingsSince(client: Client, ts: number): Promise<nu
   return Number(rs.rows[0].n);
 }
 
-/** Sum of rollup counts for minutes from ts's minute on (equals the valued rows if none double-counted). */
+/**
+ * Sum of rollup counts for minutes from ts's minute on (equals the valued rows if none
+ * double-counted). Throws when the hourly rollups from ts's hour on disagree with the minutes.
+ */
 export async function rollupCountSince(client: Client, ts: number): Promise<number> {
+  const hour = Math.floor(ts / 3_600_000) * 3_600_000;
+  const both = await client.execute({
+    sql: "SELECT (SELECT coalesce(sum(count), 0) FROM rollups WHERE minute >= ?) AS minutes, (SELECT coalesce(sum(count), 0) FROM rollups_hourly WHERE hour >= ?) AS hours",
+    args: [hour, hour],
+  });
+  if (Number(both.rows[0].minutes) !== Number(both.rows[0].hours)) {
+    throw new Error(`hourly rollups count ${both.rows[0].hours} readings from ${new Date(hour).toISOString()} on, minute rollups ${both.rows[0].minutes}`);
+  }
   const rs = await client.execute({ sql: "SELECT coalesce(sum(count), 0) AS n FROM rollups WHERE minute >= ?", args: [Math.floor(ts / 60_000) * 60_000] });
   return Number(rs.rows[0].n);
 }

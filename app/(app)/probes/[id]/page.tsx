@@ -184,7 +184,7 @@ export default async function ProbePage({ params }: { params: Promise<{ id: stri
               </Link>
             ) : null}
           </div>
-          <SpotCheckTable rows={spot.rows} kind={spot.kind} tolerance={spot.tolerance} ecUnit={user.ecUnit} />
+          <SpotCheckTable rows={spot.rows} kind={spot.kind} tolerance={spot.tolerance} ecUnit={user.ecUnit} canChange={canChange} />
         </Card>
       ) : null}
     </>

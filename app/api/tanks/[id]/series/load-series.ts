@@ -1,6 +1,8 @@
 // Downsampled history of one tank for charts and sparklines: min, max and mean per time bucket,
-// folded in SQL (so a 30-day view reads per-minute rollups, never millions of raw rows) and
-// finished by the pure bucketing in lib/display/downsample.
+// folded in SQL and finished by the pure bucketing in lib/display/downsample. The resolution
+// read follows the range: raw readings for buckets under a minute, minute rollups up to
+// HOURLY_FROM_MS, hourly rollups beyond (a 30-day view reads 720 rows per probe, a year 8,760),
+// with finer sources for the newest part that the coarser ones do not cover yet.
 import { and, eq, gte, inArray, isNotNull, isNull, lt, lte, or, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { calibrationRuns, holds, probes, sites, tanks, type ProbeKind } from "@/db/schema";
@@ -9,13 +11,16 @@ import { bucketPlan, emptyBuckets, foldIntoBuckets, type BucketPlan, type Bucket
 /** The newest minutes come from raw readings: the current minute's rollup is still filling. */
 const RAW_TAIL_MS = 5 * 60_000;
 const MINUTE = 60_000;
+const HOUR = 3_600_000;
+/** Ranges longer than this read hourly rollups (14 days of minutes is 20,160 rows per probe). */
+export const HOURLY_FROM_MS = 14 * 86_400_000;
 
 export interface TankSeries {
   tankId: number;
   from: number;
   to: number;
   bucketMs: number;
-  source: "readings" | "rollups";
+  source: "readings" | "rollups" | "hourly-rollups";
   band: { ph: [number, number]; ec: [number, number]; temp: [number, number] };
   series: Record<ProbeKind, Buckets>;
   holds: { id: number; placedAt: number; endAt: number | null; plannedEndAt: number; reason: string }[];
@@ -48,12 +53,13 @@ async function rawPartials(db: Db, probeIds: number[], plan: BucketPlan, from: n
   return rows.map((r) => ({ t: plan.start + r.b * plan.bucketMs, min: r.mn, max: r.mx, sum: r.s, count: r.n, worst: r.w }));
 }
 
-async function rollupPartials(db: Db, probeIds: number[], plan: BucketPlan, from: number, to: number): Promise<Partial[]> {
+async function rollupPartials(db: Db, probeIds: number[], plan: BucketPlan, from: number, to: number, table: "rollups" | "hourly"): Promise<Partial[]> {
   if (!probeIds.length || to <= from) return [];
+  const [name, column] = table === "rollups" ? [sql.raw("rollups"), sql.raw("minute")] : [sql.raw("rollups_hourly"), sql.raw("hour")];
   const rows = await db.all<{ b: number; mn: number; mx: number; s: number; n: number }>(sql`
-    SELECT (minute - ${int(plan.start)}) / ${int(plan.bucketMs)} AS b, min(min) AS mn, max(max) AS mx, sum(sum) AS s, sum(count) AS n
-    FROM rollups
-    WHERE probe_id IN (${sql.join(probeIds, sql`, `)}) AND minute >= ${from} AND minute < ${to}
+    SELECT (${column} - ${int(plan.start)}) / ${int(plan.bucketMs)} AS b, min(min) AS mn, max(max) AS mx, sum(sum) AS s, sum(count) AS n
+    FROM ${name}
+    WHERE probe_id IN (${sql.join(probeIds, sql`, `)}) AND ${column} >= ${from} AND ${column} < ${to}
     GROUP BY b`);
   // Rollups carry no quality flags; the chart marks holds and calibrations instead.
   return rows.map((r) => ({ t: plan.start + r.b * plan.bucketMs, min: r.mn, max: r.mx, sum: r.s, count: r.n, worst: null }));
@@ -63,10 +69,14 @@ async function rollupPartials(db: Db, probeIds: number[], plan: BucketPlan, from
 export async function loadTankSeries(db: Db, orgId: number, tankId: number, from: number, to: number, points: number): Promise<TankSeries | null> {
   const tank = await scopedTank(db, orgId, tankId);
   if (!tank) return null;
-  const plan = bucketPlan(from, to, points);
+  const useHourly = to - from > HOURLY_FROM_MS;
+  // Hourly rows fill hour-wide (or wider) buckets: no more buckets than hours in the range.
+  const plan = bucketPlan(from, to, useHourly ? Math.max(1, Math.min(points, Math.floor((to - from) / HOUR))) : points);
   const probeRows = await db.select({ id: probes.id, kind: probes.kind }).from(probes).where(eq(probes.tankId, tankId));
   const useRollups = plan.bucketMs >= MINUTE;
   const rawFrom = useRollups ? Math.max(plan.start, Math.floor((to - RAW_TAIL_MS) / MINUTE) * MINUTE) : Math.max(from, plan.start);
+  // Whole hours before the raw tail come from hourly rollups, the minutes between from minute ones.
+  const minuteFrom = useHourly ? Math.max(plan.start, Math.floor(rawFrom / HOUR) * HOUR) : plan.start;
 
   const series = {} as Record<ProbeKind, Buckets>;
   await Promise.all(
@@ -76,11 +86,12 @@ export async function loadTankSeries(db: Db, orgId: number, tankId: number, from
         series[kind] = emptyBuckets(plan.bucketMs);
         return;
       }
-      const [older, recent] = await Promise.all([
-        useRollups ? rollupPartials(db, ids, plan, plan.start, rawFrom) : Promise.resolve([]),
+      const [oldest, older, recent] = await Promise.all([
+        useHourly ? rollupPartials(db, ids, plan, plan.start, minuteFrom, "hourly") : Promise.resolve([]),
+        useRollups ? rollupPartials(db, ids, plan, minuteFrom, rawFrom, "rollups") : Promise.resolve([]),
         rawPartials(db, ids, plan, rawFrom, to),
       ]);
-      series[kind] = foldIntoBuckets([...older, ...recent], plan);
+      series[kind] = foldIntoBuckets([...oldest, ...older, ...recent], plan);
     }),
   );
 
@@ -113,7 +124,7 @@ export async function loadTankSeries(db: Db, orgId: number, tankId: number, from
     from,
     to,
     bucketMs: plan.bucketMs,
-    source: useRollups ? "rollups" : "readings",
+    source: useHourly ? "hourly-rollups" : useRollups ? "rollups" : "readings",
     band: { ph: [tank.phMin, tank.phMax], ec: [tank.ecMinUs, tank.ecMaxUs], temp: [tank.tempMin, tank.tempMax] },
     series,
     holds: holdRows.map((h) => ({ id: h.id, placedAt: h.placedAt, endAt: h.releasedAt, plannedEndAt: h.plannedEndAt, reason: h.reason })),

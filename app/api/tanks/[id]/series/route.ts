@@ -4,8 +4,8 @@ import { notFound } from "@/app/_server/errors";
 import { ALL_ROLES, guarded, idParam } from "@/app/_server/guard";
 import { loadTankSeries } from "./load-series";
 
-/** Longest range one request may ask for: the 30-day view plus a day of slack for custom ranges. */
-const MAX_RANGE_MS = 31 * 86_400_000;
+/** Longest range one request may ask for: a year (leap or not); hourly rollups make it cheap. */
+const MAX_RANGE_MS = 366 * 86_400_000;
 
 const seriesQuery = z
   .object({
@@ -18,7 +18,7 @@ const seriesQuery = z
     return { to, from: q.from ?? to - 3_600_000, points: q.points };
   })
   .refine((q) => q.to > q.from, { message: "The range must end after it starts.", path: ["to"] })
-  .refine((q) => q.to - q.from <= MAX_RANGE_MS, { message: "The range may be at most 31 days.", path: ["from"] });
+  .refine((q) => q.to - q.from <= MAX_RANGE_MS, { message: "The range may be at most 366 days.", path: ["from"] });
 
 export const dynamic = "force-dynamic";
 
