@@ -6,6 +6,7 @@ export default defineConfig({
   test: {
     include: ["tests/unit/**/*.test.ts", "tests/integration/**/*.test.ts"],
     environment: "node",
+    setupFiles: ["tests/setup-secrets.ts"],
     testTimeout: 60_000,
     hookTimeout: 120_000,
     fileParallelism: false,

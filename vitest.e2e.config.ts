@@ -8,6 +8,7 @@ export default defineConfig({
   test: {
     include: ["tests/e2e/**/*.e2e.test.ts"],
     globalSetup: ["tests/e2e/global-setup.ts"],
+    setupFiles: ["tests/e2e/secrets-setup.ts"],
     environment: "node",
     testTimeout: 90_000,
     hookTimeout: 120_000,

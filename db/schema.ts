@@ -41,6 +41,9 @@ export const users = sqliteTable(
     ecUnit: text("ec_unit", { enum: EC_UNITS }).notNull().default("mS/cm"),
     wallSound: integer("wall_sound", { mode: "boolean" }).notNull().default(false),
     notifyEmail: integer("notify_email", { mode: "boolean" }).notNull().default(true),
+    // Carried in the session cookie and checked on every request; signing out bumps it, so a
+    // copied cookie stops working at once rather than when it expires.
+    sessionVersion: integer("session_version").notNull().default(0),
     createdAt: createdAt(),
   },
   (t) => [uniqueIndex("users_email_unique").on(t.email)],
@@ -115,7 +118,15 @@ export const devices = sqliteTable(
     lastSeenAt: integer("last_seen_at"),
     createdAt: createdAt(),
   },
-  (t) => [uniqueIndex("devices_username_unique").on(t.username), index("devices_controller_idx").on(t.controllerId)],
+  (t) => [
+    uniqueIndex("devices_username_unique").on(t.username),
+    index("devices_controller_idx").on(t.controllerId),
+    // A controller id names one live device across every organisation: it is the device's MQTT
+    // client id and topic level, so two live devices sharing one could take over each other.
+    uniqueIndex("devices_live_controller_unique")
+      .on(t.controllerId)
+      .where(sql`${t.revokedAt} IS NULL`),
+  ],
 );
 
 export const PROBE_STATUSES = ["active", "replace", "retired"] as const;
@@ -450,7 +461,7 @@ export const alertState = sqliteTable("alert_state", {
 });
 
 export const signInAttempts = sqliteTable("sign_in_attempts", {
-  key: text("key").primaryKey(), // lower-cased e-mail
+  key: text("key").primaryKey(), // "{address} {e-mail}" or "account {e-mail}" (lower-cased e-mail)
   failures: integer("failures").notNull().default(0),
   lastFailureAt: integer("last_failure_at").notNull(),
   lockedUntil: integer("locked_until"),

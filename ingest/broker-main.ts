@@ -5,6 +5,9 @@ import { z } from "zod";
 import { getClient } from "../db/client";
 import { logger } from "./log";
 import { startBroker } from "./broker/server";
+import { exitUnlessSecretsSet } from "./secrets";
+
+exitUnlessSecretsSet("broker", ["MQTT_INGEST_PASSWORD", "MQTT_WEB_PASSWORD", "MQTT_SIMULATOR_PASSWORD"]);
 
 const env = z
   .object({
@@ -15,6 +18,8 @@ const env = z
     BROKER_DEVICE_CACHE_MS: z.coerce.number().int().nonnegative().default(5 * 60_000),
     BROKER_DEVICE_RECHECK_MS: z.coerce.number().int().positive().default(2000),
     BROKER_MAX_DEVICE_PAYLOAD_BYTES: z.coerce.number().int().positive().default(1024 * 1024),
+    BROKER_FAILED_CONNECTS_PER_ADDRESS: z.coerce.number().int().positive().default(20),
+    BROKER_FAILED_CONNECTS_PER_USERNAME: z.coerce.number().int().positive().default(5),
   })
   .parse(process.env);
 
@@ -29,6 +34,8 @@ const broker = await startBroker({
   deviceCacheTtlMs: env.BROKER_DEVICE_CACHE_MS,
   deviceRecheckMs: env.BROKER_DEVICE_RECHECK_MS,
   maxDevicePayloadBytes: env.BROKER_MAX_DEVICE_PAYLOAD_BYTES,
+  failedConnectsPerAddress: env.BROKER_FAILED_CONNECTS_PER_ADDRESS,
+  failedConnectsPerUsername: env.BROKER_FAILED_CONNECTS_PER_USERNAME,
 });
 log.info(`listening on ${env.BROKER_HOST}:${broker.port}`);
 

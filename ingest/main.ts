@@ -19,6 +19,10 @@ import { Refusals } from "./worker/refusals";
 import { Registry } from "./worker/registry";
 import { deleteExpiredReadings } from "./worker/retention";
 import { TankTemperatures } from "./worker/temperatures";
+import { exitUnlessSecretsSet } from "./secrets";
+
+// AUTH_SECRET signs the acknowledge links in alert mail.
+exitUnlessSecretsSet("ingest", ["AUTH_SECRET", "MQTT_INGEST_PASSWORD"]);
 
 const log = logger("ingest");
 const config = ingestConfig();

@@ -7,6 +7,8 @@
 //
 // Who may do what on the embedded broker is in ingest/broker/acl.ts.
 
+import { requireSecret } from "./secrets";
+
 export const TOPIC_ROOT = "tw/v1";
 
 export const topics = {
@@ -55,21 +57,52 @@ export const CONTROLLER_ID_PATTERN = /^(?!tidewell-)[A-Za-z0-9][A-Za-z0-9._-]{0,
 
 /**
  * Client ids starting with this prefix belong to the service accounts; the broker refuses a
- * device that tries one, so a device cannot take over (and so disconnect) the ingest's session.
- * A device's client id must be its controller id, or start with `{controllerId}-`.
+ * device that tries one, so a device cannot take over (and so disconnect) a service's session.
+ * Each account has its own prefix within it: `tidewell-{account}` or `tidewell-{account}-…`.
  */
 export const SERVICE_CLIENT_ID_PREFIX = "tidewell-";
 
-/** The ingest's fixed client id: its persistent session (clean: false) queues QoS 1 raw messages. */
-export function ingestClientId(): string {
-  return process.env.MQTT_INGEST_CLIENT_ID ?? "tidewell-ingest";
+/** A client id of a service account: `tidewell-{account}`, or `tidewell-{account}-{suffix}`. */
+export function serviceClientId(account: ServiceAccount, suffix?: string): string {
+  return suffix ? `${SERVICE_CLIENT_ID_PREFIX}${account}-${suffix}` : `${SERVICE_CLIENT_ID_PREFIX}${account}`;
 }
 
-/** Service accounts on the broker (devices authenticate with their own issued credentials). */
+export function serviceClientIdAllowed(account: ServiceAccount, clientId: string): boolean {
+  const own = serviceClientId(account);
+  return clientId === own || clientId.startsWith(`${own}-`);
+}
+
+/**
+ * A device's client id is its controller id, or `{controllerId}:{session}` when it keeps more
+ * than one connection. `:` cannot occur in a controller id, so the controller a client id belongs
+ * to is unambiguous: no device can take a client id that is, or starts like, another's.
+ */
+export const DEVICE_CLIENT_ID_SEPARATOR = ":";
+const DEVICE_SESSION_PATTERN = /^[A-Za-z0-9._-]{1,64}$/;
+
+export function deviceClientId(controllerId: string, session?: string): string {
+  return session ? `${controllerId}${DEVICE_CLIENT_ID_SEPARATOR}${session}` : controllerId;
+}
+
+export function deviceClientIdAllowed(clientId: string, controllerId: string): boolean {
+  if (clientId === controllerId) return true;
+  const prefix = `${controllerId}${DEVICE_CLIENT_ID_SEPARATOR}`;
+  return clientId.startsWith(prefix) && DEVICE_SESSION_PATTERN.test(clientId.slice(prefix.length));
+}
+
+/** The ingest's client id: its persistent session (clean: false) queues QoS 1 raw messages. */
+export function ingestClientId(): string {
+  return process.env.MQTT_INGEST_CLIENT_ID ?? serviceClientId("ingest");
+}
+
+/**
+ * Service accounts on the broker (devices authenticate with their own issued credentials). The
+ * passwords are generated per installation and read from the environment (ingest/secrets.ts).
+ */
 export const SERVICE_ACCOUNTS = {
-  ingest: { username: "svc-ingest", password: () => process.env.MQTT_INGEST_PASSWORD ?? "tidewell-ingest-local" },
-  web: { username: "svc-web", password: () => process.env.MQTT_WEB_PASSWORD ?? "tidewell-web-local" },
-  simulator: { username: "svc-simulator", password: () => process.env.MQTT_SIMULATOR_PASSWORD ?? "tidewell-simulator-local" },
+  ingest: { username: "svc-ingest", password: () => requireSecret("MQTT_INGEST_PASSWORD") },
+  web: { username: "svc-web", password: () => requireSecret("MQTT_WEB_PASSWORD") },
+  simulator: { username: "svc-simulator", password: () => requireSecret("MQTT_SIMULATOR_PASSWORD") },
 } as const;
 export type ServiceAccount = keyof typeof SERVICE_ACCOUNTS;
 

@@ -8,9 +8,16 @@ import { applyMigrations } from "../db/migrate";
 import { databaseUrl, getClient, getDb } from "../db/client";
 import { seedIfEmpty } from "../db/seed";
 import { DEMO_PASSWORD, DEMO_USERS } from "../db/seed/scenario";
+import { SECRET_NAMES } from "../ingest/secrets";
+import { loadOrCreateDemoSecrets } from "./demo-secrets";
 
 const PORT = Number(process.env.PORT ?? 3000);
+const secretsFile = path.join(process.cwd(), "data", "secrets.json");
+const { secrets, created } = loadOrCreateDemoSecrets(secretsFile);
+if (created) console.log(`[demo] generated this installation's secrets into ${secretsFile} (mode 0600)`);
 const env = {
+  // Secrets from the environment win over the generated ones.
+  ...Object.fromEntries(SECRET_NAMES.map((n) => [n, process.env[n] || secrets[n]])),
   TIDEWELL_DEMO: "1",
   NEXT_TELEMETRY_DISABLED: "1",
   DATABASE_URL: databaseUrl(),

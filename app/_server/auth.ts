@@ -2,15 +2,18 @@ import NextAuth, { CredentialsSignin, type DefaultSession } from "next-auth";
 import Credentials from "next-auth/providers/credentials";
 import { z } from "zod";
 import type { Role } from "@/db/schema";
-import { checkPassword } from "./sign-in-throttle";
+import { requireSecret } from "@/ingest/secrets";
+import { endSessions } from "./session-version";
+import { checkPassword, clientAddress } from "./sign-in-throttle";
 
 declare module "next-auth" {
   interface Session {
-    user: { id: string; role: Role; orgId: number } & DefaultSession["user"];
+    user: { id: string; role: Role; orgId: number; sessionVersion: number } & DefaultSession["user"];
   }
   interface User {
     role?: Role;
     orgId?: number;
+    sessionVersion?: number;
   }
 }
 
@@ -27,21 +30,23 @@ const credentialsSchema = z.object({
   password: z.string().min(1).max(200),
 });
 
-export const { handlers, auth, signIn, signOut } = NextAuth({
+// Configured lazily, per request: the secret is read when a request arrives (the server refuses to
+// start without it, see instrumentation.ts), never at build time and never from the source.
+export const { handlers, auth, signIn, signOut } = NextAuth(() => ({
   trustHost: true,
-  secret: process.env.AUTH_SECRET ?? "tidewell-demo-secret-change-me-in-production-000",
+  secret: requireSecret("AUTH_SECRET"),
   session: { strategy: "jwt", maxAge: 12 * 60 * 60 },
   pages: { signIn: "/sign-in" },
   providers: [
     Credentials({
       credentials: { email: { label: "E-mail" }, password: { label: "Password", type: "password" } },
-      async authorize(raw) {
+      async authorize(raw, request) {
         const parsed = credentialsSchema.safeParse(raw);
         if (!parsed.success) throw new SignInRefused("invalid-input");
-        const result = await checkPassword(parsed.data.email, parsed.data.password);
+        const result = await checkPassword(parsed.data.email, parsed.data.password, clientAddress(request?.headers));
         if (!result.ok) throw new SignInRefused(result.code);
         const u = result.user;
-        return { id: String(u.id), email: u.email, name: u.name, role: u.role, orgId: u.orgId };
+        return { id: String(u.id), email: u.email, name: u.name, role: u.role, orgId: u.orgId, sessionVersion: u.sessionVersion };
       },
     }),
   ],
@@ -51,6 +56,7 @@ export const { handlers, auth, signIn, signOut } = NextAuth({
         token.uid = user.id;
         token.role = user.role;
         token.orgId = user.orgId;
+        token.sv = user.sessionVersion;
       }
       return token;
     },
@@ -58,7 +64,15 @@ export const { handlers, auth, signIn, signOut } = NextAuth({
       session.user.id = String(token.uid);
       session.user.role = token.role as Role;
       session.user.orgId = Number(token.orgId);
+      session.user.sessionVersion = typeof token.sv === "number" ? token.sv : -1;
       return session;
     },
   },
-});
+  events: {
+    // Signing out ends every session of the user at once, including copies of the cookie.
+    async signOut(message) {
+      const uid = "token" in message ? Number(message.token?.uid) : NaN;
+      if (Number.isInteger(uid)) await endSessions(uid);
+    },
+  },
+}));

@@ -2,7 +2,7 @@
 // throws at import or connect time; `publish` rejects with a clear message when the broker
 // cannot be reached, so a page can record its change and tell the user what did not go out.
 import mqtt, { type MqttClient } from "mqtt";
-import { SERVICE_ACCOUNTS, SERVICE_CLIENT_ID_PREFIX, mqttUrl } from "@/ingest/topics";
+import { SERVICE_ACCOUNTS, mqttUrl, serviceClientId } from "@/ingest/topics";
 import type { Publish } from "@/ingest/alerts/publish";
 
 const CONNECT_WAIT_MS = 3_000;
@@ -13,7 +13,7 @@ const globalForMqtt = globalThis as unknown as { __tidewellWebMqtt?: MqttClient 
 function client(): MqttClient {
   if (globalForMqtt.__tidewellWebMqtt) return globalForMqtt.__tidewellWebMqtt;
   const c = mqtt.connect(mqttUrl(), {
-    clientId: `${SERVICE_CLIENT_ID_PREFIX}web-${process.pid}-${Math.random().toString(36).slice(2, 8)}`,
+    clientId: serviceClientId("web", `${process.pid}-${Math.random().toString(36).slice(2, 8)}`),
     username: SERVICE_ACCOUNTS.web.username,
     password: SERVICE_ACCOUNTS.web.password(),
     connectTimeout: CONNECT_WAIT_MS,

@@ -15,15 +15,16 @@ export interface SessionUser {
 }
 
 /**
- * The signed-in user as the database knows them now: a deactivated user or a changed role
- * takes effect on the next request, whatever the session cookie says.
+ * The signed-in user as the database knows them now: a deactivated user, a changed role or a
+ * sign-out elsewhere takes effect on the next request, whatever the session cookie says.
  */
 export const currentUser = cache(async (): Promise<SessionUser | null> => {
   const session = await auth();
   const id = Number(session?.user?.id);
   if (!session || !Number.isInteger(id)) return null;
   const row = await getDb().query.users.findFirst({ where: and(eq(users.id, id), eq(users.active, true)) });
-  if (!row) return null;
+  // A session from before the user's last sign-out is over, even though its cookie has not expired.
+  if (!row || row.sessionVersion !== session.user.sessionVersion) return null;
   return { id: row.id, orgId: row.orgId, role: row.role, name: row.name, email: row.email, ecUnit: row.ecUnit, wallSound: row.wallSound };
 });
 

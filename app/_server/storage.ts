@@ -1,5 +1,6 @@
 // Buffer certificates and photos: checked (size, and type by magic bytes, not the name), stored
-// on local disk under UPLOAD_DIR (data/uploads by default), one row in `uploads` per file.
+// on local disk under UPLOAD_DIR (data/uploads by default) under a generated name, one row in
+// `uploads` per file. They are served only as downloads (see the certificate route).
 import fs from "node:fs/promises";
 import path from "node:path";
 import crypto from "node:crypto";
@@ -25,10 +26,16 @@ export function sniffType(bytes: Uint8Array): UploadType | null {
   return null;
 }
 
-/** A name safe to show and to send back in Content-Disposition. */
-function cleanName(name: string): string {
-  const base = path.basename(name).replace(/[^\w.\- ()]+/g, "_").slice(0, 120);
-  return base || "certificate";
+const EXTENSION: Record<UploadType, string> = { "application/pdf": ".pdf", "image/png": ".png", "image/jpeg": ".jpg" };
+
+/**
+ * A name safe to show and to send back in Content-Disposition, ending in the extension of the
+ * type the bytes were checked to be (a PDF named `page.html` is kept as `page.pdf`).
+ */
+export function storedName(name: string, mime: UploadType): string {
+  const base = path.basename(name).replace(/[^\w.\- ()]+/g, "_");
+  const stem = base.replace(/\.[^.]*$/, "").replace(/^[.\s]+/, "").slice(0, 110);
+  return `${stem || "certificate"}${EXTENSION[mime]}`;
 }
 
 export async function storeUpload(db: Db, o: { orgId: number; userId: number; filename: string; bytes: Uint8Array }) {
@@ -42,7 +49,7 @@ export async function storeUpload(db: Db, o: { orgId: number; userId: number; fi
   await fs.writeFile(full, o.bytes);
   const [row] = await db
     .insert(uploads)
-    .values({ orgId: o.orgId, filename: cleanName(o.filename), mime, size: o.bytes.byteLength, storageKey, uploadedBy: o.userId })
+    .values({ orgId: o.orgId, filename: storedName(o.filename, mime), mime, size: o.bytes.byteLength, storageKey, uploadedBy: o.userId })
     .returning();
   return row;
 }

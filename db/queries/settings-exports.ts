@@ -1,9 +1,9 @@
 // CSV exports for the owner: a tank's readings over a time range (streamed page by page, so a year
 // of readings never sits in memory) and the calibration record.
-import Papa from "papaparse";
 import { and, asc, eq, gt, gte, inArray, lt, or } from "drizzle-orm";
 import type { Db } from "../client";
 import { calibrationPoints, calibrationRuns, probes, readings, sites, tanks, users } from "../schema";
+import { csvRows, csvTable } from "../../lib/settings/csv";
 import { tankOfOrg } from "./settings-tanks";
 
 const PAGE = 5000;
@@ -26,7 +26,7 @@ export async function readingsCsv(db: Db, orgId: number, q: { tank: number; from
     async pull(controller) {
       if (!headerSent) {
         headerSent = true;
-        controller.enqueue(encoder.encode(Papa.unparse({ fields: READINGS_COLUMNS, data: [] }) + "\r\n"));
+        controller.enqueue(encoder.encode(csvTable(READINGS_COLUMNS, [])));
         if (probeIds.length === 0) return controller.close();
         return;
       }
@@ -44,7 +44,7 @@ export async function readingsCsv(db: Db, orgId: number, q: { tank: number; from
         const p = probeById.get(r.probeId)!;
         return [new Date(r.ts).toISOString(), r.ts, p.serial, p.kind, r.raw, RAW_UNIT[p.kind], r.value ?? "", UNIT[p.kind], r.quality, r.calibrationRunId ?? ""];
       });
-      controller.enqueue(encoder.encode(Papa.unparse(rows, { header: false }) + "\r\n"));
+      controller.enqueue(encoder.encode(csvRows(rows)));
       if (page.length < PAGE) controller.close();
     },
   });
@@ -81,5 +81,5 @@ export async function calibrationsCsv(db: Db, orgId: number, q: { site?: number;
     points.filter((p) => p.runId === run.id).map((p) => `${p.purpose === "as_found" ? "as-found " : ""}${p.standard}${p.lot ? ` lot ${p.lot}` : ""}`).join("; "),
     by ?? "", run.note ?? "",
   ]);
-  return Papa.unparse({ fields: CALIBRATION_COLUMNS, data: rows }) + "\r\n";
+  return csvTable(CALIBRATION_COLUMNS, rows);
 }

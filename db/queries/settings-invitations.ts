@@ -8,15 +8,15 @@ import type { Db } from "../client";
 import { notifications, organisations, usedTokens, users } from "../schema";
 import { ApiError } from "../../app/_server/errors";
 import { appUrl, sendMail } from "../../ingest/mailer";
+import { requireSecret } from "../../ingest/secrets";
 import { ROLE_NAMES } from "../../lib/settings/enums";
 import { audit } from "./audit";
 
 export const INVITATION_TTL_MS = 72 * 3_600_000;
 const PURPOSE = "invite";
 
-// Same secret (and demo fallback) as the session signer in app/_server/auth.ts.
 function secret() {
-  return new TextEncoder().encode(process.env.AUTH_SECRET ?? "tidewell-demo-secret-change-me-in-production-000");
+  return new TextEncoder().encode(requireSecret("AUTH_SECRET"));
 }
 
 export async function signInvitation(userId: number, now = Date.now()): Promise<string> {
@@ -85,4 +85,21 @@ export async function mailInvitation(db: Db, invitee: typeof users.$inferSelect,
   }
   await db.insert(notifications).values({ orgId: invitee.orgId, userId: invitee.id, kind: "invitation", toAddress: invitee.email, subject, status: error ? "failed" : "sent", error, sentAt: now });
   return { mailed: error === null };
+}
+
+/** Tells the holder of an address that another organisation tried to invite it; nothing changes. */
+export async function mailInvitedElsewhere(db: Db, holder: typeof users.$inferSelect, inviter: { orgId: number; name: string }): Promise<boolean> {
+  const org = await db.query.organisations.findFirst({ where: eq(organisations.id, inviter.orgId) });
+  const text = [
+    `Hello ${holder.name},`,
+    "",
+    `${inviter.name} of ${org?.name ?? "another farm"} tried to invite this address to Tidewell. It already has an account with another organisation, so nothing was changed.`,
+    "If you want to join them, ask them to invite another address of yours. If you did not expect this, ignore this e-mail.",
+  ].join("\n");
+  try {
+    await sendMail({ to: holder.email, subject: `[Tidewell] ${inviter.name} tried to invite you to ${org?.name ?? "their farm"}`, text });
+    return true;
+  } catch {
+    return false;
+  }
 }

@@ -8,6 +8,7 @@ import { conflict, notFound } from "../../app/_server/errors";
 import type { inviteUserSchema, updateUserSchema } from "../../lib/settings/schemas";
 import { audit, changedFields, type Tx } from "./audit";
 import { conflictOn } from "./settings-errors";
+import { mailInvitation, mailInvitedElsewhere } from "./settings-invitations";
 
 export interface Actor {
   id: number;
@@ -26,18 +27,35 @@ export async function listUsers(db: Db, orgId: number) {
 }
 export type UserRow = Awaited<ReturnType<typeof listUsers>>[number];
 
-/** Creates the invited user (no password until they accept). Mailing the link is the caller's job. */
-export async function createInvitedUser(db: Db, actor: Actor, input: z.output<typeof inviteUserSchema>, now = Date.now()) {
+type UserRecord = typeof users.$inferSelect;
+
+/**
+ * Creates the invited user (no password until they accept), or says the address belongs to
+ * another organisation (`elsewhere`), which the caller must not reveal. Mailing is the caller's job.
+ */
+export async function createInvitedUser(db: Db, actor: Actor, input: z.output<typeof inviteUserSchema>, now = Date.now()): Promise<{ invitee: UserRecord } | { elsewhere: UserRecord }> {
   return db.transaction(async (tx) => {
     const existing = await tx.query.users.findFirst({ where: eq(users.email, input.email) });
     if (existing) {
-      if (existing.orgId === actor.orgId && existing.passwordHash === null && existing.active) return existing; // invite again
+      if (existing.orgId !== actor.orgId) return { elsewhere: existing };
+      if (existing.passwordHash === null && existing.active) return { invitee: existing }; // invite again
       throw conflictOn("email", "Someone with this e-mail address already has an account.");
     }
     const [row] = await tx.insert(users).values({ orgId: actor.orgId, email: input.email, name: input.name, role: input.role, passwordHash: null }).returning();
     await audit(tx, { orgId: actor.orgId, userId: actor.id, at: now, action: "user.invite", entity: "user", entityId: row.id, detail: { email: row.email, role: row.role } });
-    return row;
+    return { invitee: row };
   });
+}
+
+/**
+ * Invites someone and mails them. An address that already has an account with another
+ * organisation gets the same answer as any invitation (so the inviter learns nothing about who
+ * uses Tidewell elsewhere); its holder is mailed that nothing was changed.
+ */
+export async function inviteUser(db: Db, actor: Actor & { name: string }, input: z.output<typeof inviteUserSchema>): Promise<{ email: string; mailed: boolean }> {
+  const created = await createInvitedUser(db, actor, input);
+  if ("elsewhere" in created) return { email: input.email, mailed: await mailInvitedElsewhere(db, created.elsewhere, actor) };
+  return { email: created.invitee.email, ...(await mailInvitation(db, created.invitee, actor.name)) };
 }
 
 export async function userOfOrg(db: Db, orgId: number, id: number) {

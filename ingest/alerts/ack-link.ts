@@ -4,13 +4,13 @@ import { randomUUID } from "node:crypto";
 import { jwtVerify, SignJWT } from "jose";
 import { z } from "zod";
 import { appUrl } from "../mailer";
+import { requireSecret } from "../secrets";
 
 export const ACK_LINK_TTL_MS = 24 * 60 * 60_000;
 const PURPOSE = "incident-ack";
 
-// The same fallback as the session secret in app/_server/auth.ts, so the demo works unset.
 function secret() {
-  return new TextEncoder().encode(process.env.AUTH_SECRET ?? "tidewell-demo-secret-change-me-in-production-000");
+  return new TextEncoder().encode(requireSecret("AUTH_SECRET"));
 }
 
 const claims = z.object({

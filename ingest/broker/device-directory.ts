@@ -45,12 +45,17 @@ export class DeviceDirectory {
     private readonly opts: { cacheTtlMs: number; recheckMs: number },
   ) {}
 
-  async verify(username: string, password: string, now = Date.now()): Promise<Verification> {
-    const pwDigest = digest(password);
+  /** The device, when these credentials were verified within the cache's lifetime (no hashing). */
+  verifiedFromCache(username: string, password: string, now = Date.now()): VerifiedDevice | null {
     const cached = this.cache.get(username);
-    if (cached && cached.passwordDigest === pwDigest && now - cached.verifiedAt < this.opts.cacheTtlMs) {
-      return { ok: true, device: cached.device };
-    }
+    if (cached && cached.passwordDigest === digest(password) && now - cached.verifiedAt < this.opts.cacheTtlMs) return cached.device;
+    return null;
+  }
+
+  async verify(username: string, password: string, now = Date.now()): Promise<Verification> {
+    const fromCache = this.verifiedFromCache(username, password, now);
+    if (fromCache) return { ok: true, device: fromCache };
+    const pwDigest = digest(password);
     const row = await this.lookup(username);
     if (!row) return { ok: false, reason: "unknown-username" };
     if (row.revoked_at !== null) return { ok: false, reason: "revoked" };

@@ -9,6 +9,7 @@ import { ingestClientId, topics } from "../topics";
 import { errorText, printable, type Logger } from "../log";
 import { canPublish, canSubscribe, mayRetain } from "./acl";
 import { authenticate } from "./authenticate";
+import { ConnectThrottle, DEFAULT_THROTTLE } from "./connect-throttle";
 import { DeviceDirectory } from "./device-directory";
 import { describePrincipal, type Principal } from "./principals";
 import { OutgoingStore, withOutgoingStore } from "./outgoing-store";
@@ -26,6 +27,9 @@ export interface BrokerOptions {
   deviceCacheTtlMs: number;
   deviceRecheckMs: number;
   maxDevicePayloadBytes: number;
+  /** Failed device connects a source address (a username) may make per minute before it is refused unchecked. */
+  failedConnectsPerAddress: number;
+  failedConnectsPerUsername: number;
 }
 
 export interface RunningBroker {
@@ -50,6 +54,12 @@ export async function startBroker(opts: BrokerOptions): Promise<RunningBroker> {
   const clients = new Set<Client>();
   const devicesByUsername = new Map<string, Set<Client>>();
   const directory = new DeviceDirectory(opts.db, { cacheTtlMs: opts.deviceCacheTtlMs, recheckMs: opts.deviceRecheckMs });
+  const throttles = {
+    // Up to 8 checks from one address at once (a farm's controllers may share one and all reconnect
+    // after a broker restart), one per username: a burst costs at most the free failures plus 8.
+    byAddress: new ConnectThrottle({ ...DEFAULT_THROTTLE, freeFailures: opts.failedConnectsPerAddress, concurrent: 8 }),
+    byUsername: new ConnectThrottle({ ...DEFAULT_THROTTLE, freeFailures: opts.failedConnectsPerUsername, concurrent: 1 }),
+  };
   const ingestId = ingestClientId();
   const who = (client: Client | null) => {
     const p = client ? principals.get(client) : undefined;
@@ -62,14 +72,14 @@ export async function startBroker(opts: BrokerOptions): Promise<RunningBroker> {
     drainTimeout: 30_000,
     authenticate(client, username, password, done) {
       const from = remoteAddress(client);
-      authenticate(directory, client.id, username, password)
+      authenticate(directory, throttles, { clientId: client.id, username, password, address: remoteHost(client) })
         .then((result) => {
           if (result.ok) {
             principals.set(client, result.principal);
             return done(null, true);
           }
           log.warn(`refused connection: ${result.reason} (username "${printable(username ?? "")}", client id "${printable(client.id)}", from ${from})`);
-          done(authError(result.reason, result.reason.startsWith("client id") ? 2 : 4), false);
+          done(authError(result.reason, result.code), false);
         })
         .catch((err: unknown) => {
           // The database is unreachable or not migrated: say "server unavailable" so devices retry.
@@ -209,6 +219,10 @@ function coalesceWrites(socket: net.Socket): void {
     }
     return write(...args);
   }) as typeof socket.write;
+}
+
+function remoteHost(client: Client): string {
+  return (client.conn as Partial<net.Socket>).remoteAddress ?? "unknown";
 }
 
 function remoteAddress(client: Client): string {

@@ -17,12 +17,11 @@ import { freePort } from "../../tests/integration/helpers/ports";
 import { sleep } from "../../tests/integration/helpers/wait";
 import { sessionFor, type HttpSession } from "../../tests/e2e/session";
 import { ensureBuild } from "./build";
-import { topics } from "../../ingest/topics";
+import { deviceClientId, topics } from "../../ingest/topics";
 import type { RawMessage } from "../../ingest/payloads";
 import type { BenchSection, Metric, SectionOptions } from "./metric";
 
 const DAY_MS = 86_400_000;
-const AUTH_SECRET = "bench-secret-bench-secret-bench-secret-00";
 
 function p95(values: number[]): number {
   if (!values.length) return NaN;
@@ -98,7 +97,7 @@ async function pacedPublisher(url: string, targets: { controllerId: string; user
     targets.map(
       (t, i) =>
         new Promise<MqttClient>((resolve, reject) => {
-          const c = mqtt.connect(url, { username: t.username, password: t.password, clientId: `${t.controllerId}-bench-live-${process.pid}-${i}`, reconnectPeriod: 0 });
+          const c = mqtt.connect(url, { username: t.username, password: t.password, clientId: deviceClientId(t.controllerId, `bench-live-${process.pid}-${i}`), reconnectPeriod: 0 });
           c.once("connect", () => resolve(c));
           c.once("error", reject);
         }),
@@ -207,7 +206,7 @@ export async function* benchLive(opts: SectionOptions): AsyncIterable<Metric> {
     await startIngest(db, broker.url);
     const port = await freePort();
     const web = spawnProcess("web", path.join(REPO_ROOT, "node_modules/.bin/next"), ["start", "-H", "127.0.0.1", "-p", String(port)], {
-      env: { DATABASE_URL: db.url, MQTT_URL: broker.url, BROKER_PORT: String(broker.port), AUTH_SECRET, NEXT_TELEMETRY_DISABLED: "1" },
+      env: { DATABASE_URL: db.url, MQTT_URL: broker.url, BROKER_PORT: String(broker.port), NEXT_TELEMETRY_DISABLED: "1" },
     });
     webOutput = () => web.output();
     await web.waitForLine(/Ready in/, 60_000);

@@ -15,6 +15,10 @@ import { alertsSection } from "./alerts";
 import { ingestSection } from "./ingest";
 import { liveSection } from "./live";
 import { printMetric, type BenchSection } from "./metric";
+import { provideTestSecrets } from "../../tests/integration/helpers/secrets";
+
+// The bench starts its own broker, ingest and web with secrets generated for this run.
+provideTestSecrets();
 
 const SECTIONS: BenchSection[] = [ingestSection, liveSection, alertsSection];
 

@@ -8,7 +8,7 @@
 // is what the whole chain sustains, with the broker's queue bounded instead of growing forever.
 import mqtt, { type MqttClient } from "mqtt";
 import { readingBatch, type RawMessage } from "../../ingest/payloads";
-import { SERVICE_ACCOUNTS, topics } from "../../ingest/topics";
+import { deviceClientId, SERVICE_ACCOUNTS, serviceClientId, topics } from "../../ingest/topics";
 
 export interface PublisherTarget {
   controllerId: string;
@@ -41,7 +41,7 @@ export class LoadPublisher {
 
   async start(): Promise<void> {
     this.running = true;
-    const stream = await this.connect({ ...credentialsOf("web"), clientId: `tidewell-bench-${process.pid}` });
+    const stream = await this.connect({ ...credentialsOf("web"), clientId: serviceClientId("web", `bench-${process.pid}`) });
     stream.on("message", (_topic, payload) => {
       const batch = readingBatch.safeParse(JSON.parse(payload.toString("utf8")));
       if (batch.success) this.streamed += batch.data.readings.length;
@@ -53,7 +53,7 @@ export class LoadPublisher {
 
     await Promise.all(
       this.targets.map(async (t, i) => {
-        const client = await this.connect({ username: t.username, password: t.password, clientId: `${t.controllerId}-bench-${process.pid}-${i}` });
+        const client = await this.connect({ username: t.username, password: t.password, clientId: deviceClientId(t.controllerId, `bench-${process.pid}-${i}`) });
         const topic = topics.raw(t.controllerId);
         let seq = 0;
         let ts = this.opts.startTs;

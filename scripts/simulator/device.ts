@@ -3,7 +3,7 @@
 // broker is away and resends them on reconnect, so a broker restart loses nothing.
 import mqtt, { type MqttClient } from "mqtt";
 import { dosingCommand, type DosingCommand, type RawMessage } from "../../ingest/payloads";
-import { topics } from "../../ingest/topics";
+import { deviceClientId, topics } from "../../ingest/topics";
 import type { DeviceCredential } from "./fleet";
 
 export interface PublishCounters {
@@ -32,7 +32,7 @@ export class Device {
       username: c.username,
       password: c.password,
       // A device's client id is its controller id or starts with it (the broker checks).
-      clientId: `${c.controllerId}-sim-${process.pid}`,
+      clientId: deviceClientId(c.controllerId, `sim-${process.pid}`),
       clean: true,
       reconnectPeriod: 500,
       connectTimeout: 10_000,

@@ -12,6 +12,9 @@ import { Device, type PublishCounters } from "./device";
 import { applyFault } from "./faults";
 import { loadFleet, readCredentials, type SimTank } from "./fleet";
 import { isBufferId, TankSim } from "./tank-sim";
+import { exitUnlessSecretsSet } from "../../ingest/secrets";
+
+exitUnlessSecretsSet("simulator", ["MQTT_SIMULATOR_PASSWORD"]);
 
 const log = (line: string) => console.log(`[simulator] ${line}`);
 const args = parseSimArgs(process.argv.slice(2));

@@ -2,6 +2,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import type { TestProject } from "vitest/node";
+import { generateSecrets, type SecretName } from "../../ingest/secrets";
 import { ROOT, freePort, startProcess, stopProcess, waitFor, waitForHttp, type Proc } from "./stack";
 
 declare module "vitest" {
@@ -11,6 +12,7 @@ declare module "vitest" {
     workDir: string;
     mqttUrl: string;
     mailSinkURL: string;
+    secrets: Record<SecretName, string>;
   }
 }
 
@@ -27,11 +29,14 @@ export default async function setup(project: TestProject) {
   // The mail sink (scripts/mail-sink.ts): SMTP for the app's outgoing mail, HTTP for tests to read it.
   const [smtpPort, mailHttpPort] = [await freePort(), await freePort()];
   const mailSinkURL = `http://127.0.0.1:${mailHttpPort}`;
+  // This run's own secrets, handed to every process of the stack and to the test files.
+  const secrets = generateSecrets();
+  Object.assign(process.env, secrets);
   const env = {
+    ...secrets,
     DATABASE_URL: databaseUrl,
     TIDEWELL_DEMO: "1",
     NEXT_TELEMETRY_DISABLED: "1",
-    AUTH_SECRET: "e2e-secret-e2e-secret-e2e-secret-0000",
     BROKER_PORT: String(brokerPort),
     BROKER_STATE_FILE: path.join(workDir, "broker-state.json"),
     MQTT_URL: mqttUrl,
@@ -64,6 +69,7 @@ export default async function setup(project: TestProject) {
   project.provide("workDir", workDir);
   project.provide("mqttUrl", mqttUrl);
   project.provide("mailSinkURL", mailSinkURL);
+  project.provide("secrets", secrets);
 
   return async () => {
     stopAll();

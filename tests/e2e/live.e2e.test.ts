@@ -80,7 +80,7 @@ describe("live monitoring", () => {
       )
     ).rows[0];
     tank = { id: Number(row.id), controllerId: String(row.controller_id), phProbe: Number(row.probe) };
-    mq = connect(inject("mqttUrl"), { username: SERVICE_ACCOUNTS.web.username, password: SERVICE_ACCOUNTS.web.password(), clientId: `tidewell-e2e-live-${process.pid}` });
+    mq = connect(inject("mqttUrl"), { username: SERVICE_ACCOUNTS.web.username, password: SERVICE_ACCOUNTS.web.password(), clientId: `tidewell-web-e2e-live-${process.pid}` });
     await new Promise<void>((resolve, reject) => {
       mq.once("connect", () => resolve());
       mq.once("error", reject);

@@ -217,7 +217,7 @@ describe("settings API", () => {
     expect(secret).not.toBe(cred.secret);
     await expect(connectAsync(mqttUrl, { clientId: cred.controllerId, username: cred.username, password: cred.secret, reconnectPeriod: 0, connectTimeout: 5000 })).rejects.toThrow();
 
-    const device: MqttClient = await connectAsync(mqttUrl, { clientId: `${cred.controllerId}-test`, username: cred.username, password: secret, reconnectPeriod: 0, connectTimeout: 5000 });
+    const device: MqttClient = await connectAsync(mqttUrl, { clientId: `${cred.controllerId}:test`, username: cred.username, password: secret, reconnectPeriod: 0, connectTimeout: 5000 });
     let closed = false;
     device.on("close", () => (closed = true));
     try {
@@ -254,7 +254,7 @@ describe("settings API", () => {
     const email = `new.grower.${RUN}@farm.example`;
     const invited = await call(owner, "POST", "/api/settings/users", { email: email.toUpperCase(), name: "New Grower", role: "grower" });
     expect(invited.status, invited.text).toBe(201);
-    expect(invited.json).toMatchObject({ user: { email, status: "invited" }, mailed: true });
+    expect(invited.json).toMatchObject({ invitation: { email, status: "invited" }, mailed: true });
     const mails = (await (await fetch(`${inject("mailSinkURL")}/messages?to=${encodeURIComponent(email)}`)).json()) as { messages: { subject: string; text: string }[] };
     expect(mails.messages[0].text).toContain(`${baseURL}/invite/`);
 
@@ -262,7 +262,7 @@ describe("settings API", () => {
     expect(taken.status).toBe(409);
     expect(taken.json.error.fields?.email).toMatch(/already has an account/);
 
-    const id = (invited.json.user as { id: number }).id;
+    const id = ((await call(owner, "GET", "/api/settings/users")).json.users as { id: number; email: string }[]).find((u) => u.email === email)!.id;
     const promoted = await call(owner, "PATCH", `/api/settings/users/${id}`, { role: "night_manager" });
     expect(promoted.json.user).toMatchObject({ role: "night_manager" });
 

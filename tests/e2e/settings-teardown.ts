@@ -16,6 +16,7 @@ const STATEMENTS = [
   `DELETE FROM holds WHERE tank_id IN (${TANKS})`,
   `DELETE FROM readings WHERE probe_id IN (${PROBES})`,
   `DELETE FROM rollups WHERE probe_id IN (${PROBES})`,
+  `DELETE FROM rollups_hourly WHERE probe_id IN (${PROBES})`,
   `DELETE FROM alert_state WHERE key IN (SELECT 'probe:' || id FROM probes WHERE tank_id IN (${TANKS})) OR key IN (SELECT 'tank:' || id FROM tanks WHERE site_id = ?1)`,
   `DELETE FROM alert_rules WHERE tank_id IN (${TANKS})`,
   `DELETE FROM devices WHERE tank_id IN (${TANKS})`,

@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Db } from "@/db/client";
 import * as schema from "@/db/schema";
 import { ApiError } from "@/app/_server/errors";
-import { MAX_UPLOAD_BYTES, readUpload, sniffType, storeUpload } from "@/app/_server/storage";
+import { MAX_UPLOAD_BYTES, readUpload, sniffType, storedName, storeUpload } from "@/app/_server/storage";
 import { useTestDatabase } from "./helpers/use-test-database";
 
 const testDb = useTestDatabase({ label: "uploads", seed: false, per: "file" });
@@ -63,5 +63,17 @@ describe("certificate uploads", () => {
     const big = new Uint8Array(MAX_UPLOAD_BYTES + 1);
     big.set(PNG);
     expect((await refusal(storeUpload(db, { orgId: orgs[0], userId, filename: "big.png", bytes: big }))).status).toBe(413);
+  });
+
+  it("stores a file under a generated name, named after the type its bytes were checked to be", async () => {
+    // Starts like a PDF, holds HTML, named .html: kept as a PDF download called .pdf.
+    const disguised = new TextEncoder().encode("%PDF-1.4\n<html><script>alert(1)</script></html>");
+    const row = await storeUpload(db, { orgId: orgs[0], userId, filename: "invoice.html", bytes: disguised });
+    expect(row.mime).toBe("application/pdf");
+    expect(row.filename).toBe("invoice.pdf");
+    expect(path.basename(row.storageKey)).toMatch(/^[0-9a-f-]{36}$/);
+    expect(storedName("scan.final.JPEG", "image/jpeg")).toBe("scan.final.jpg");
+    expect(storedName("../..", "image/png")).toBe("certificate.png");
+    expect(storedName(".htaccess", "application/pdf")).toBe("certificate.pdf");
   });
 });

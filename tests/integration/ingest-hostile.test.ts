@@ -4,7 +4,7 @@
 import fs from "node:fs";
 import { afterEach, describe, expect, it } from "vitest";
 import type { MqttClient } from "mqtt";
-import { topics } from "../../ingest/topics";
+import { deviceClientId, topics } from "../../ingest/topics";
 import type { TestDatabase } from "./helpers/database";
 import { connectMqtt, endMqtt } from "./helpers/mqtt";
 import { countReadingsSince, readIngestStats, startBroker, startIngest } from "./helpers/tidewell";
@@ -23,7 +23,7 @@ const credentials = (d: TestDatabase) =>
 
 function device(d: TestDatabase, controllerId: string) {
   const c = credentials(d).find((x) => x.controllerId === controllerId)!;
-  return { username: c.username, password: c.password, clientId: `${c.controllerId}-test-${process.pid}` };
+  return { username: c.username, password: c.password, clientId: deviceClientId(c.controllerId, `test-${process.pid}`) };
 }
 
 const DAY = 86_400_000;

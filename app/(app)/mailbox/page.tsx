@@ -2,10 +2,14 @@ import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { Inbox } from "lucide-react";
 import { z } from "zod";
+import { eq } from "drizzle-orm";
 import { currentUser } from "@/app/_server/session";
+import { getDb } from "@/db/client";
+import { users } from "@/db/schema";
 import { Card, PageHeader } from "@/components/ui/card";
 import { LinkedText } from "@/components/incidents/linked-text";
 import { formatDateTime } from "@/lib/display/time";
+import { mailOfOrganisation } from "./scope";
 
 export const metadata: Metadata = { title: "Demo mailbox" };
 export const dynamic = "force-dynamic";
@@ -29,10 +33,12 @@ async function readSink(): Promise<{ ok: true; messages: z.infer<typeof sunk>["m
 export default async function MailboxPage() {
   const user = (await currentUser())!;
   if (user.role !== "owner" || process.env.TIDEWELL_DEMO !== "1") notFound();
-  const sink = await readSink();
+  const read = await readSink();
+  const orgEmails = (await getDb().select({ email: users.email }).from(users).where(eq(users.orgId, user.orgId))).map((u) => u.email);
+  const sink = read.ok ? { ok: true as const, messages: mailOfOrganisation(read.messages, orgEmails) } : read;
   return (
     <>
-      <PageHeader title="Demo mailbox" subtitle="Every mail Tidewell sent in this demo, newest first, as the local mail sink received it" />
+      <PageHeader title="Demo mailbox" subtitle="Every mail Tidewell sent to your organisation in this demo, newest first, as the local mail sink received it" />
       {!sink.ok ? (
         <Card className="p-6 text-sm" role="alert">
           {sink.error}

@@ -1,6 +1,6 @@
 // MQTT clients for tests: connect and wait for the CONNACK (or the refusal).
 import mqtt, { type IClientOptions, type MqttClient } from "mqtt";
-import { SERVICE_ACCOUNTS, type ServiceAccount } from "../../../ingest/topics";
+import { SERVICE_ACCOUNTS, serviceClientId, type ServiceAccount } from "../../../ingest/topics";
 
 /** Connects (no automatic reconnect); resolves once connected, rejects with the refusal. */
 export function connectMqtt(url: string, opts: IClientOptions): Promise<MqttClient> {
@@ -18,7 +18,7 @@ export function serviceLogin(account: ServiceAccount, clientSuffix: string): ICl
   return {
     username: SERVICE_ACCOUNTS[account].username,
     password: SERVICE_ACCOUNTS[account].password(),
-    clientId: `tidewell-test-${account}-${clientSuffix}-${process.pid}`,
+    clientId: serviceClientId(account, `test-${clientSuffix}-${process.pid}`),
   };
 }
 

@@ -2,7 +2,7 @@
 import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { getDb } from "@/db/client";
-import { createInvitedUser, findInvitee, updateUser } from "@/db/queries/settings-users";
+import { findInvitee, inviteUser, updateUser } from "@/db/queries/settings-users";
 import { mailInvitation } from "@/db/queries/settings-invitations";
 import { renameOrganisation } from "@/db/queries/settings-sites";
 import { OWNER_ONLY, guardedAction } from "@/app/_server/guard";
@@ -14,9 +14,7 @@ const done = <T>(value: T) => {
 };
 
 export const inviteUserAction = guardedAction({ roles: OWNER_ONLY, action: "invite users", input: inviteUserSchema }, async (input, user) => {
-  const invitee = await createInvitedUser(getDb(), user, input);
-  const { mailed } = await mailInvitation(getDb(), invitee, user.name);
-  return done({ email: invitee.email, mailed });
+  return done(await inviteUser(getDb(), user, input));
 });
 
 export const resendInvitationAction = guardedAction({ roles: OWNER_ONLY, action: "invite users", input: z.object({ id: z.number().int().positive() }) }, async ({ id }, user) => {

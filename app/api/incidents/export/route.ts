@@ -1,4 +1,4 @@
-import Papa from "papaparse";
+import { csvTable } from "@/lib/settings/csv";
 import { getDb } from "@/db/client";
 import { listIncidents } from "@/db/queries/incidents";
 import { OWNER_ONLY, guarded } from "@/app/_server/guard";
@@ -33,9 +33,9 @@ export const GET = guarded({ roles: OWNER_ONLY, action: "export incidents", quer
       escalated_at: iso(i.escalatedAt),
     }));
   // Fields and data given separately, so an empty export still has its header row.
-  const csv = Papa.unparse({ fields: [...COLUMNS], data: records.map((r) => COLUMNS.map((c) => r[c])) });
+  const csv = csvTable(COLUMNS, records.map((r) => COLUMNS.map((c) => r[c])));
   const stamp = new Date().toISOString().slice(0, 10);
-  return new Response(`${csv}\r\n`, {
+  return new Response(csv, {
     headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="tidewell-incidents-${stamp}.csv"` },
   });
 });

@@ -4,7 +4,7 @@ import { z } from "zod";
 import { getDb } from "@/db/client";
 import { getRunView } from "@/db/queries/calibration-runs";
 import { runInOrg } from "@/db/queries/calibration-scope";
-import { ApiError, notFound, unprocessable } from "@/app/_server/errors";
+import { ApiError, conflict, notFound, unprocessable } from "@/app/_server/errors";
 import { CAN_CHANGE, guarded, idParam, parseBody } from "@/app/_server/guard";
 import { publish } from "@/app/_server/mqtt";
 import { ecStandardAt, parseStandardText, type EcStandardSpec } from "@/lib/calibration";
@@ -13,9 +13,11 @@ import { topics } from "@/ingest/topics";
 
 export const POST = guarded({ roles: CAN_CHANGE, action: "change calibrations", params: idParam }, async ({ user, params, req }) => {
   const db = getDb();
-  await runInOrg(db, user.orgId, params.id);
+  const { run } = await runInOrg(db, user.orgId, params.id);
   if (process.env.TIDEWELL_DEMO !== "1") throw notFound("The simulator");
   const body = await parseBody(req, z.object({ placeIn: z.enum(["standard", "tank"]) }));
+  // A finished run may only put the probe back in the tank; buffers belong to a run in progress.
+  if (body.placeIn === "standard" && run.status !== "in_progress") throw conflict(`This calibration run is already ${run.status}; start a new run to place the probe in a buffer.`);
   const view = await getRunView(db, user.orgId, params.id);
   if (!view.tank.controllerId) throw unprocessable("This tank has no controller to simulate.");
   const step = view.progress.steps[view.progress.current];

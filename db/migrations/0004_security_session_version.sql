@@ -1,0 +1,2 @@
+ALTER TABLE `users` ADD `session_version` integer DEFAULT 0 NOT NULL;--> statement-breakpoint
+CREATE UNIQUE INDEX `devices_live_controller_unique` ON `devices` (`controller_id`) WHERE "devices"."revoked_at" IS NULL;
