@@ -15,6 +15,8 @@ import type { DeadLetter } from "./refusals";
 import { aggregateRollups, hourlyOf, hourlyUpsertSql, rollupUpsertSql, type RollupDelta } from "./rollups";
 
 export interface PendingRow {
+  /** The row is also the reading handed to the alert hook as it is (a `CommittedReading`). */
+  v: 1;
   probeId: number;
   ts: number;
   raw: number;

@@ -12,6 +12,8 @@ import mqtt, { type IClientOptions, type IPublishPacket, type MqttClient, type P
 import type { Logger } from "../log";
 import { errorText } from "../log";
 
+const noAck = () => {};
+
 type SendPacket = (packet: Packet, cb?: (err?: Error) => void, cbStorePut?: () => void, noStore?: boolean) => void;
 
 export interface RawHandler {
@@ -84,6 +86,15 @@ export function openIngestSession(o: IngestSessionOptions): IngestSession {
     sendPacket(packet, cb, cbStorePut, noStore);
   };
 
+  // Built per message by a plain function: a named arrow inside the handler would be re-created
+  // and (under tsx, which keeps function names) renamed for every message.
+  function pubackOf(messageId: number, gen: number): () => void {
+    return () => {
+      if (gen !== generation || !client.connected) return; // the broker will redeliver it
+      sendPacket({ cmd: "puback", messageId }, undefined, undefined, true);
+    };
+  }
+
   client.handleMessage = (packet: IPublishPacket, callback) => {
     const payload = Buffer.isBuffer(packet.payload) ? packet.payload : Buffer.from(packet.payload);
     if (!o.isRawTopic(packet.topic)) {
@@ -94,15 +105,7 @@ export function openIngestSession(o: IngestSessionOptions): IngestSession {
       }
       return;
     }
-    let ack = () => {};
-    if (packet.qos > 0 && packet.messageId !== undefined) {
-      const messageId = packet.messageId;
-      const gen = generation;
-      ack = () => {
-        if (gen !== generation || !client.connected) return; // the broker will redeliver it
-        sendPacket({ cmd: "puback", messageId }, undefined, undefined, true);
-      };
-    }
+    const ack = packet.qos > 0 && packet.messageId !== undefined ? pubackOf(packet.messageId, generation) : noAck;
     const pause = o.onRaw(packet.topic, payload, ack);
     if (pause) pause.then(() => callback(), () => callback());
     else callback();

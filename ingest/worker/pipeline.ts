@@ -131,7 +131,18 @@ export class Pipeline {
       });
       // Whatever its flag (a held tank still has a temperature), an impossible value never compensates.
       if (p.kind === "temp" && c.value !== null && isPhysical("temp", c.value)) this.d.temperatures.record(tank.id, s.ts, c.value);
-      this.current.rows.push({ probeId: p.id, ts: s.ts, raw: s.signal, ...c, kind: p.kind, tankId: tank.id, orgId: tank.orgId });
+      this.current.rows.push({
+        v: 1,
+        probeId: p.id,
+        ts: s.ts,
+        raw: s.signal,
+        value: c.value,
+        quality: c.quality,
+        calibrationRunId: c.calibrationRunId,
+        kind: p.kind,
+        tankId: tank.id,
+        orgId: tank.orgId,
+      });
     }
   }
 
@@ -258,18 +269,8 @@ export class Pipeline {
   }
 
   private async runHook(rows: PendingRow[]) {
-    const readings: CommittedReading[] = rows.map((r) => ({
-      v: 1,
-      orgId: r.orgId,
-      tankId: r.tankId,
-      probeId: r.probeId,
-      kind: r.kind,
-      ts: r.ts,
-      raw: r.raw,
-      value: r.value,
-      quality: r.quality,
-      calibrationRunId: r.calibrationRunId,
-    }));
+    // The rows already have a CommittedReading's fields: handed on as they are, not copied.
+    const readings: readonly CommittedReading[] = rows;
     try {
       await this.d.onCommitted(readings);
     } catch (err) {

@@ -51,6 +51,58 @@ export interface EvaluateReadingResult {
 const finite = (v: number | null | undefined): number | null =>
   typeof v === "number" && Number.isFinite(v) ? v : null;
 
+/**
+ * States this function returned. It never mutates its input and builds every returned state
+ * from fresh objects, so one of them needs no `restoreProbeState` when it comes back as the
+ * next reading's input (the alert runner passes them straight on; restoring each reading's state
+ * again was a large share of the ingest's CPU per reading).
+ */
+const evaluated = new WeakSet<object>();
+
+function finished(result: EvaluateReadingResult): EvaluateReadingResult {
+  evaluated.add(result.state);
+  return result;
+}
+
+function previousState(state: EvaluateReadingInput["state"]): ProbeAlertState {
+  return typeof state === "object" && state !== null && evaluated.has(state) ? state : restoreProbeState(state);
+}
+
+/** What one evaluation's rule steps share (built once per reading instead of a closure per reading). */
+interface RuleStep {
+  settings: RuleSettings;
+  next: ProbeAlertState;
+  ctx: EventContext;
+  events: AlertEvent[];
+  ts: number;
+  value: number | null;
+  note: string;
+}
+
+function suspendAll(next: ProbeAlertState, enabled: readonly ReadingCause[]) {
+  for (const c of enabled) next.causes[c] = suspendTracker(next.causes[c]);
+}
+
+function runRule(
+  s: RuleStep,
+  cause: ReadingCause,
+  cond: Condition | null,
+  delays: { fireDelayMs: number; clearDelayMs: number },
+  fireMessage: () => string,
+  clearMessage: () => string,
+  withNote = true,
+): "fire" | "clear" | null {
+  if (!s.settings.causes[cause].enabled) return null;
+  const r = stepTracker(s.next.causes[cause], cond, { at: s.ts, fireDelayMs: delays.fireDelayMs, clearDelayMs: delays.clearDelayMs });
+  s.next.causes[cause] = r.tracker;
+  if (r.transition === "fire") {
+    s.events.push(makeEvent(s.ctx, "fire", cause, fireMessage() + (withNote ? s.note : ""), s.value));
+  } else if (r.transition === "clear") {
+    s.events.push(makeEvent(s.ctx, "clear", cause, clearMessage(), s.value));
+  }
+  return r.transition;
+}
+
 /** Which "not trusted" status to report: the probe's status, else the reading's flag. */
 function untrustedStatus(status: CalibrationStatus, quality: ReadingQuality): CalibrationStatus | null {
   if (status === "lapsed" || status === "never") return status;
@@ -77,22 +129,25 @@ function untrustedStatus(status: CalibrationStatus, quality: ReadingQuality): Ca
  */
 export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingResult {
   const settings = input.settings ?? DEFAULT_RULE_SETTINGS;
-  const prev = restoreProbeState(input.state);
+  const prev = previousState(input.state);
   const { reading, tank } = input;
   const ts = finite(reading.ts);
   if (ts === null || (prev.lastTs !== null && ts <= prev.lastTs)) {
-    return { state: prev, events: [] };
+    return finished({ state: prev, events: [] });
   }
   const { measure, quality } = reading;
   const value = finite(reading.value);
   const raw = finite(reading.raw);
 
   const next: ProbeAlertState = {
-    ...prev,
+    version: 1,
     causes: { ...prev.causes },
     lastTs: ts,
     lastValue: value,
     lastRaw: raw,
+    bandSide: prev.bandSide,
+    history: prev.history,
+    flat: prev.flat,
   };
   const untrusted = untrustedStatus(input.calibration.status, quality);
   const ctx: EventContext = {
@@ -115,16 +170,12 @@ export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingRes
       if (c === "out-of-band") next.bandSide = null;
     }
   }
-  const suspend = () => {
-    for (const c of enabled) next.causes[c] = suspendTracker(next.causes[c]);
-  };
-
   // ---- hold: silence everything, forget held readings --------------------------------
   if (tank.hold.active || quality === "held") {
-    suspend();
+    suspendAll(next, enabled);
     next.history = [];
     next.flat = null;
-    return { state: next, events };
+    return finished({ state: next, events });
   }
 
   // ---- track history (also while settling) ---------------------------------------------
@@ -148,32 +199,15 @@ export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingRes
   // ---- settling after release ------------------------------------------------------------
   const releasedAt = finite(tank.hold.releasedAt);
   if (releasedAt !== null && ts < releasedAt + settings.settling.afterReleaseMs) {
-    suspend();
-    return { state: next, events };
+    suspendAll(next, enabled);
+    return finished({ state: next, events });
   }
 
   // ---- rules -------------------------------------------------------------------------------
-  const note = calibrationNote(untrusted);
-  const run = (
-    cause: ReadingCause,
-    cond: Condition | null,
-    delays: { fireDelayMs: number; clearDelayMs: number },
-    fireMessage: () => string,
-    clearMessage: () => string,
-    withNote = true,
-  ): "fire" | "clear" | null => {
-    if (!settings.causes[cause].enabled) return null;
-    const r = stepTracker(next.causes[cause], cond, { at: ts, ...delays });
-    next.causes[cause] = r.tracker;
-    if (r.transition === "fire") {
-      events.push(makeEvent(ctx, "fire", cause, fireMessage() + (withNote ? note : ""), value));
-    } else if (r.transition === "clear") {
-      events.push(makeEvent(ctx, "clear", cause, clearMessage(), value));
-    }
-    return r.transition;
-  };
+  const step: RuleStep = { settings, next, ctx, events, ts, value, note: calibrationNote(untrusted) };
 
-  run(
+  runRule(
+    step,
     "implausible",
     implausibleCondition(value, quality, range),
     settings.implausible,
@@ -183,7 +217,8 @@ export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingRes
 
   const band = tank.band[measure] ?? null;
   const oob = usable ? outOfBandCondition(value, band, settings.outOfBand.hysteresisFraction) : null;
-  const oobT = run(
+  const oobT = runRule(
+    step,
     "out-of-band",
     oob,
     settings.outOfBand,
@@ -194,7 +229,8 @@ export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingRes
   if (oobT === "clear") next.bandSide = null;
 
   const maxRate = settings.rateOfChange.maxPerMinute[measure];
-  run(
+  runRule(
+    step,
     "rate-of-change",
     usable && !dry ? rateCondition(rate, maxRate) : null,
     settings.rateOfChange,
@@ -203,7 +239,8 @@ export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingRes
   );
 
   const flat = next.flat;
-  run(
+  runRule(
+    step,
     "flatline",
     raw !== null ? flatlineCondition(flat, ts, settings.flatline.windowMs[measure], settings.flatline.minSamples) : null,
     { fireDelayMs: 0, clearDelayMs: 0 },
@@ -216,7 +253,8 @@ export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingRes
     const bl = settings.bufferLike;
     const buffer = usable ? nearExcludedBuffer(value, band, bl.buffers, bl.tolerance) : null;
     const pendingSince = next.causes["buffer-like"].pendingSince ?? ts;
-    run(
+    runRule(
+    step,
       "buffer-like",
       usable ? bufferLikeCondition(buffer) : null,
       bl,
@@ -227,7 +265,8 @@ export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingRes
 
   if (measure === "ec") {
     const os = settings.outOfSolution;
-    run(
+    runRule(
+    step,
       "out-of-solution",
       usable ? outOfSolutionCondition(value, os.maxEc) : null,
       os,
@@ -236,5 +275,5 @@ export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingRes
     );
   }
 
-  return { state: next, events };
+  return finished({ state: next, events });
 }

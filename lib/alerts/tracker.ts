@@ -33,34 +33,37 @@ export interface StepResult {
  * so repeated evaluation of the same situation produces no further transitions.
  */
 export function stepTracker(t: CauseTracker, cond: Condition | null, o: StepOptions): StepResult {
-  if (cond === null) return { tracker: { ...t }, transition: null };
+  // Every tracker is built as a literal with the same four fields (not spread): this runs for
+  // each rule of each reading, and literals of one shape are what V8 builds fastest.
+  if (cond === null) return { tracker: tracker(t.firing, t.firedAt, t.pendingSince, t.clearingSince), transition: null };
   const allowFire = o.allowFire ?? true;
   if (!t.firing) {
     if (!cond.active || !allowFire) {
-      return { tracker: { ...t, pendingSince: null, clearingSince: null }, transition: null };
+      return { tracker: tracker(t.firing, t.firedAt, null, null), transition: null };
     }
     const pendingSince = t.pendingSince ?? o.at;
     if (o.at - pendingSince >= o.fireDelayMs) {
-      return {
-        tracker: { firing: true, firedAt: o.at, pendingSince: null, clearingSince: null },
-        transition: "fire",
-      };
+      return { tracker: tracker(true, o.at, null, null), transition: "fire" };
     }
-    return { tracker: { ...t, pendingSince, clearingSince: null }, transition: null };
+    return { tracker: tracker(t.firing, t.firedAt, pendingSince, null), transition: null };
   }
   if (!cond.clearOk) {
-    return { tracker: { ...t, pendingSince: null, clearingSince: null }, transition: null };
+    return { tracker: tracker(t.firing, t.firedAt, null, null), transition: null };
   }
   const clearingSince = t.clearingSince ?? o.at;
   if (o.at - clearingSince >= o.clearDelayMs) {
-    return { tracker: { firing: false, firedAt: null, pendingSince: null, clearingSince: null }, transition: "clear" };
+    return { tracker: tracker(false, null, null, null), transition: "clear" };
   }
-  return { tracker: { ...t, pendingSince: null, clearingSince }, transition: null };
+  return { tracker: tracker(t.firing, t.firedAt, null, clearingSince), transition: null };
+}
+
+function tracker(firing: boolean, firedAt: number | null, pendingSince: number | null, clearingSince: number | null): CauseTracker {
+  return { firing, firedAt, pendingSince, clearingSince };
 }
 
 /** Silenced (hold, settling): forget pending timers, keep a firing cause firing. */
 export function suspendTracker(t: CauseTracker): CauseTracker {
-  return { ...t, pendingSince: null, clearingSince: null };
+  return tracker(t.firing, t.firedAt, null, null);
 }
 
 /** Unconditional clear (rule disabled). Reports "clear" only if it was firing. */

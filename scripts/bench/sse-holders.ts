@@ -1,7 +1,7 @@
 // A child process of the bench's live section: opens N server-sent-event streams with the given
 // cookie and holds them, reading (and discarding) what arrives with node:http, so the clients'
 // own work never competes with the bench process that times the readings. Prints
-// "open N" once they are all answered 200, and on stdin closing or SIGTERM "alive N": the
+// "open N" once they are all answered 200, and on SIGTERM "alive N": the
 // streams still open that received bytes in the last HEARD_WITHIN_MS.
 //   tsx scripts/bench/sse-holders.ts BASE_URL COUNT HEARD_WITHIN_MS   (cookie in SSE_COOKIE)
 import http from "node:http";
@@ -40,5 +40,6 @@ const finish = () => {
   process.exit(0);
 };
 process.on("SIGTERM", finish);
-process.stdin.on("end", finish);
-process.stdin.resume();
+// Only SIGTERM ends the hold. (Its stdin is /dev/null when the bench spawns it, which ends at
+// once: finishing on stdin's end closed every stream right after opening them.)
+setInterval(() => undefined, 60_000);

@@ -456,6 +456,21 @@ describe("no double firing, persistence, purity", () => {
     expect(r.state).not.toBe(frozen);
   });
 
+  it("does not mutate a state it returned, which it takes back without restoring it", () => {
+    const { state } = run("ph", every(0, 100, 10, 6.8));
+    const snapshot = JSON.stringify(state);
+    deepFreeze(state);
+    const r = evaluateReading({
+      state,
+      reading: { ts: T0 + 200 * SEC, value: 6.8, raw: 1, measure: "ph", quality: "ok" },
+      tank: { band: BANDS, hold: { active: false } },
+      calibration: { status: "current" },
+    });
+    expect(r.events.map((e) => e.cause)).toEqual(["out-of-band"]);
+    expect(JSON.stringify(state)).toBe(snapshot);
+    expect(r.state).not.toBe(state);
+  });
+
   it("a disabled cause never fires, and one firing when disabled is cleared", () => {
     const off = mergeSettings({ causes: { "out-of-band": { enabled: false } } });
     expect(run("ph", every(0, 600, 10, 6.8), { settings: off }).events).toEqual([]);
