@@ -12,6 +12,7 @@ import { liveHub, type LiveMessage } from "@/app/_server/live-hub";
 import type { OrgEvent } from "@/ingest/payloads";
 import { readingsSince, type StreamReading } from "./backfill";
 import { streamScope, tankInScope } from "./scope";
+import { Outbox } from "./outbox";
 import { sseEvent, sseRetry } from "./sse";
 
 export const dynamic = "force-dynamic";
@@ -20,6 +21,8 @@ const HEARTBEAT_MS = 15_000;
 /** Batches from different tanks reach the web slightly out of timestamp order; resume a little earlier. */
 const RESUME_SLACK_MS = 10_000;
 const RETRY_MS = 2_000;
+/** Unread bytes after which a stalled client is dropped (its browser reconnects and backfills). */
+const MAX_UNREAD_BYTES = 4 * 1024 * 1024;
 
 const streamQuery = z.object({
   site: z.coerce.number().int().positive().optional(),
@@ -38,45 +41,25 @@ const EVENT_NAME: Record<OrgEvent["type"], string> = {
 
 /**
  * A live batch encoded once for every client that streams it (a thousand open walls would
- * otherwise each map and stringify the same readings): the event id is its newest timestamp.
+ * otherwise each map and stringify the same readings). `withId` carries the batch's newest
+ * timestamp as event id; `withoutId` is for a client that already has a newer one (batches of
+ * different tanks arrive slightly out of order): an event without an id leaves the browser's last
+ * event id where it was, so ids never decrease and no client needs bytes of its own.
  */
-/**
- * Every open stream's pending readings are written by one shared timer every COALESCE_MS: with a
- * thousand walls open, one write per client per interval instead of one per tank batch.
- */
-const COALESCE_MS = 25;
-let flushers: (() => void)[] = [];
-function flushSoon(flush: () => void) {
-  if (flushers.length === 0) {
-    setTimeout(() => {
-      const due = flushers;
-      flushers = [];
-      for (const f of due) f();
-    }, COALESCE_MS);
-  }
-  flushers.push(flush);
+interface EncodedBatch {
+  id: number;
+  withId: Uint8Array;
+  withoutId: Uint8Array;
 }
-
-function concat(chunks: Uint8Array[]): Uint8Array {
-  let length = 0;
-  for (const c of chunks) length += c.length;
-  const out = new Uint8Array(length);
-  let at = 0;
-  for (const c of chunks) {
-    out.set(c, at);
-    at += c.length;
-  }
-  return out;
-}
-
-const encoded = new WeakMap<LiveMessage, { id: number; chunk: Uint8Array } | null>();
-function encodedReadings(m: Extract<LiveMessage, { kind: "readings" }>) {
+const encoded = new WeakMap<LiveMessage, EncodedBatch | null>();
+function encodedReadings(m: Extract<LiveMessage, { kind: "readings" }>): EncodedBatch | null {
   let hit = encoded.get(m);
   if (hit === undefined) {
     const readings: StreamReading[] = m.readings.map((r) => ({ probeId: r.probeId, kind: r.kind, ts: r.ts, value: r.value, quality: r.quality }));
     let id = 0;
     for (const r of readings) if (r.ts > id) id = r.ts;
-    hit = readings.length ? { id, chunk: sseEvent("readings", { tankId: m.tankId, readings }, id) } : null;
+    const data = { tankId: m.tankId, readings };
+    hit = readings.length ? { id, withId: sseEvent("readings", data, id), withoutId: sseEvent("readings", data) } : null;
     encoded.set(m, hit);
   }
   return hit;
@@ -102,122 +85,86 @@ export const GET = guarded({ roles: ALL_ROLES, query: streamQuery }, async ({ us
   const resumeFrom = lastEventId(req) ?? query.since ?? null;
   const hub = liveHub();
   let cleanup = () => {};
+  const out = new Outbox(MAX_UNREAD_BYTES, () => cleanup());
+  let closed = false;
+  let lastId = resumeFrom ?? 0;
+  // Live messages wait here while a backfill runs, so readings reach the client in order.
+  let queue: LiveMessage[] | null = [];
 
-  const stream = new ReadableStream<Uint8Array>({
-    start(controller) {
-      let closed = false;
-      let lastId = resumeFrom ?? 0;
-      // Live messages wait here while a backfill runs, so readings reach the client in order.
-      let queue: LiveMessage[] | null = [];
+  const sendReadings = (tankId: number, readings: StreamReading[]) => {
+    if (!readings.length) return;
+    lastId = Math.max(lastId, ...readings.map((r) => r.ts));
+    out.send(sseEvent("readings", { tankId, readings }, lastId));
+  };
 
-      const send = (chunk: Uint8Array) => {
-        if (closed) return;
-        try {
-          controller.enqueue(chunk);
-        } catch {
-          cleanup();
-        }
-      };
-      // Live readings go out together every COALESCE_MS (one write instead of one per batch).
-      let pending: Uint8Array[] = [];
-      const flushPending = () => {
-        const chunks = pending;
-        pending = [];
-        if (chunks.length === 1) send(chunks[0]);
-        else if (chunks.length > 1) send(concat(chunks));
-      };
-      const sendSoon = (chunk: Uint8Array) => {
-        if (pending.length === 0) flushSoon(flushPending);
-        pending.push(chunk);
-      };
-
-      const sendReadings = (tankId: number, readings: StreamReading[]) => {
-        if (!readings.length) return;
-        flushPending();
-        lastId = Math.max(lastId, ...readings.map((r) => r.ts));
-        send(sseEvent("readings", { tankId, readings }, lastId));
-      };
-
-      const deliver = (m: LiveMessage) => {
-        if (m.kind === "resync") {
-          void backfill(lastId - RESUME_SLACK_MS);
-        } else if (m.kind === "readings") {
-          if (m.orgId !== scope.orgId || !tankInScope(scope, m.tankId)) return;
-          const shared = encodedReadings(m);
-          // Usually the batch is newer than what this client has: every client gets the same bytes.
-          if (shared && shared.id >= lastId) {
-            lastId = shared.id;
-            sendSoon(shared.chunk);
-          } else {
-            sendReadings(
-              m.tankId,
-              m.readings.map((r) => ({ probeId: r.probeId, kind: r.kind, ts: r.ts, value: r.value, quality: r.quality })),
-            );
-          }
-        } else if (m.event.orgId === scope.orgId && tankInScope(scope, m.event.tankId)) {
-          flushPending();
-          send(sseEvent(EVENT_NAME[m.event.type], m.event));
-        }
-      };
-
-      const backfill = async (since: number) => {
-        queue ??= [];
-        try {
-          const found = await readingsSince(db, scope, since);
-          for (const [tankId, readings] of found.byTank) sendReadings(tankId, readings);
-          send(sseEvent("backfill", { since, rows: found.rows, truncated: found.truncated }));
-        } catch (err) {
-          console.error("[stream] backfill failed", err);
-          send(sseEvent("backfill", { since, rows: 0, truncated: true }));
-        }
-        const waiting = queue ?? [];
-        queue = null;
-        for (const m of waiting) deliver(m);
-      };
-
-      const unlisten = hub.listen((m) => (queue ? queue.push(m) : deliver(m)));
-
-      // The heartbeat keeps proxies from closing an idle stream and re-checks that the user may
-      // still watch (a deactivated account stops receiving at the next beat).
-      const heartbeat = setInterval(async () => {
-        try {
-          const still = await db.query.users.findFirst({ columns: { id: true }, where: and(eq(users.id, user.id), eq(users.active, true)) });
-          if (!still) return cleanup();
-        } catch {
-          /* the database is busy; check again at the next beat */
-        }
-        send(sseEvent("heartbeat", { now: Date.now(), broker: hub.connected }));
-      }, HEARTBEAT_MS);
-
-      cleanup = () => {
-        if (closed) return;
-        closed = true;
-        clearInterval(heartbeat);
-        unlisten();
-        req.signal.removeEventListener("abort", cleanup);
-        try {
-          controller.close();
-        } catch {
-          /* already closed by the client */
-        }
-      };
-      req.signal.addEventListener("abort", cleanup, { once: true });
-
-      send(sseRetry(RETRY_MS));
-      send(sseEvent("ready", { now: Date.now(), broker: hub.connected, resumed: resumeFrom !== null }));
-      if (resumeFrom !== null) void backfill(resumeFrom - RESUME_SLACK_MS);
-      else {
-        const waiting = queue;
-        queue = null;
-        for (const m of waiting) deliver(m);
+  const deliver = (m: LiveMessage) => {
+    if (m.kind === "resync") {
+      void backfill(lastId - RESUME_SLACK_MS);
+    } else if (m.kind === "readings") {
+      if (m.orgId !== scope.orgId || !tankInScope(scope, m.tankId)) return;
+      const shared = encodedReadings(m);
+      if (!shared) return;
+      // Every client gets the same bytes, written with the next shared tick.
+      if (shared.id >= lastId) {
+        lastId = shared.id;
+        out.sendSoon(shared.withId);
+      } else {
+        out.sendSoon(shared.withoutId);
       }
-    },
-    cancel() {
-      cleanup();
-    },
-  });
+    } else if (m.event.orgId === scope.orgId && tankInScope(scope, m.event.tankId)) {
+      out.send(sseEvent(EVENT_NAME[m.event.type], m.event));
+    }
+  };
 
-  return new Response(stream, {
+  const backfill = async (since: number) => {
+    queue ??= [];
+    try {
+      const found = await readingsSince(db, scope, since);
+      for (const [tankId, readings] of found.byTank) sendReadings(tankId, readings);
+      out.send(sseEvent("backfill", { since, rows: found.rows, truncated: found.truncated }));
+    } catch (err) {
+      console.error("[stream] backfill failed", err);
+      out.send(sseEvent("backfill", { since, rows: 0, truncated: true }));
+    }
+    const waiting = queue ?? [];
+    queue = null;
+    for (const m of waiting) deliver(m);
+  };
+
+  const unlisten = hub.listen((m) => (queue ? queue.push(m) : deliver(m)));
+
+  // The heartbeat keeps proxies from closing an idle stream and re-checks that the user may
+  // still watch (a deactivated account stops receiving at the next beat).
+  const heartbeat = setInterval(async () => {
+    try {
+      const still = await db.query.users.findFirst({ columns: { id: true }, where: and(eq(users.id, user.id), eq(users.active, true)) });
+      if (!still) return cleanup();
+    } catch {
+      /* the database is busy; check again at the next beat */
+    }
+    out.send(sseEvent("heartbeat", { now: Date.now(), broker: hub.connected }));
+  }, HEARTBEAT_MS);
+
+  cleanup = () => {
+    if (closed) return;
+    closed = true;
+    clearInterval(heartbeat);
+    unlisten();
+    req.signal.removeEventListener("abort", cleanup);
+    out.close();
+  };
+  req.signal.addEventListener("abort", cleanup, { once: true });
+
+  out.send(sseRetry(RETRY_MS));
+  out.send(sseEvent("ready", { now: Date.now(), broker: hub.connected, resumed: resumeFrom !== null }));
+  if (resumeFrom !== null) void backfill(resumeFrom - RESUME_SLACK_MS);
+  else {
+    const waiting = queue;
+    queue = null;
+    for (const m of waiting) deliver(m);
+  }
+
+  return new Response(out.stream, {
     headers: {
       "content-type": "text/event-stream; charset=utf-8",
       // no-transform keeps compression from buffering the stream.
