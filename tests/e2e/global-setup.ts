@@ -73,8 +73,29 @@ export default async function setup(project: TestProject) {
 
   return async () => {
     stopAll();
-    if (!process.env.E2E_KEEP_DIR) fs.rmSync(workDir, { recursive: true, force: true });
+    // The broker writes its state file as it stops: wait for every process before removing the folder.
+    await Promise.all(procs.map((p) => exited(p, 15_000)));
+    if (process.env.E2E_KEEP_DIR) return;
+    try {
+      fs.rmSync(workDir, { recursive: true, force: true, maxRetries: 5, retryDelay: 200 });
+    } catch (err) {
+      console.warn(`could not remove ${workDir}: ${String(err)}`);
+    }
   };
+
+  async function exited(p: Proc, timeoutMs: number): Promise<void> {
+    if (p.child.exitCode !== null || p.child.signalCode !== null) return;
+    await new Promise<void>((resolve) => {
+      const timer = setTimeout(() => {
+        stopProcess(p, "SIGKILL");
+        resolve();
+      }, timeoutMs);
+      p.child.once("exit", () => {
+        clearTimeout(timer);
+        resolve();
+      });
+    });
+  }
 
   async function startStack() {
     const tsx = path.join(ROOT, "node_modules/.bin/tsx");
