@@ -11,8 +11,8 @@ import { createManualCalibration } from "@/db/queries/calibration-manual";
 import { probeRecord } from "@/db/queries/calibration-history";
 import { calibrationCompliance } from "@/db/queries/calibration-compliance";
 import { addSpotCheck, deleteSpotCheck, editSpotCheck, importSpotChecksCsv, listSpotChecks } from "@/db/queries/spot-checks";
-import { ApiError } from "@/app/_server/errors";
 import { DAY_MS, bufferPh, ecStandardAt, nernstSlopeMv, phFromMv } from "@/lib/calibration";
+import { refusal } from "./helpers/refusal";
 import { useTestDatabase } from "./helpers/use-test-database";
 
 const T0 = Date.UTC(2026, 11, 2, 10, 0);
@@ -43,16 +43,6 @@ async function feed(probeId: number, end: number, seconds: number, raw: (ts: num
 
 async function feedTemperature(end: number, tempC: number) {
   await db.insert(schema.readings).values({ probeId: temp, ts: end, raw: tempC, value: tempC, quality: "ok" }).onConflictDoNothing();
-}
-
-async function refusal(p: Promise<unknown>): Promise<ApiError> {
-  try {
-    await p;
-  } catch (e) {
-    if (e instanceof ApiError) return e;
-    throw e;
-  }
-  throw new Error("expected a refusal");
 }
 
 const testDb = useTestDatabase({ label: "cal", seed: false, per: "file" });
