@@ -10,7 +10,9 @@
 //
 // The loop is closed end to end: it listens to the live reading stream (as svc-web, like the web
 // app) and keeps at most `maxOutstanding` samples published but not yet committed, so the rate it
-// settles at is what the whole chain sustains, with the broker's queue bounded.
+// settles at is what the whole chain sustains, with the broker's queue bounded. `backlog()` then
+// leaves the loop open: it publishes a fixed number of messages that the broker queues for a
+// stopped ingest, for the bench to time how fast the ingest drains them.
 import net from "node:net";
 import mqtt, { type MqttClient } from "mqtt";
 import mqttPacket from "mqtt-packet";
@@ -71,12 +73,16 @@ class ControllerConnection {
   private nextId = 1;
   /** Messages this connection may still send before it waits for PUBACKs. */
   credit: number;
+  /** Messages sent and not yet acknowledged. */
+  get unacknowledged() {
+    return this.window - this.credit;
+  }
 
   constructor(
     private readonly t: PublisherTarget,
     private readonly clientId: string,
     startTs: number,
-    window: number,
+    private readonly window: number,
   ) {
     this.topic = Buffer.from(topics.raw(t.controllerId));
     this.ts = startTs;
@@ -120,6 +126,10 @@ class ControllerConnection {
     });
   }
 
+  get samplesPerMessage() {
+    return this.t.serials.length;
+  }
+
   /** Sends up to `n` messages in one write; returns the number of samples sent. */
   send(n: number): number {
     if (!this.socket || n <= 0) return 0;
@@ -154,6 +164,9 @@ export class LoadPublisher {
   private stream: MqttClient | null = null;
   private connections: ControllerConnection[] = [];
   private running = false;
+  /** Open loop: messages each connection still has to send, and a wake-up when all are acknowledged. */
+  private backlogLeft = new Map<ControllerConnection, number>();
+  private backlogDone: (() => void) | null = null;
   /** Connections holding credit while the chain catches up. */
   private parked = new Set<ControllerConnection>();
   published = 0;
@@ -166,6 +179,13 @@ export class LoadPublisher {
   ) {}
 
   private spend(conn: ControllerConnection) {
+    const left = this.backlogLeft.get(conn);
+    if (left !== undefined) {
+      const sent = conn.send(Math.min(left, conn.credit));
+      this.backlogLeft.set(conn, left - sent / conn.samplesPerMessage);
+      if (this.backlogDone && this.connections.every((c) => this.backlogLeft.get(c) === 0 && c.unacknowledged === 0)) this.backlogDone();
+      return;
+    }
     if (!this.running) return;
     if (this.published - this.streamed > this.opts.maxOutstanding) {
       this.parked.add(conn); // resumes when the stream shows commits
@@ -209,6 +229,27 @@ export class LoadPublisher {
       ),
     );
     for (const conn of this.connections) this.spend(conn);
+  }
+
+  /** Stops the closed loop; resolves once the broker has acknowledged everything sent. */
+  async pause(): Promise<void> {
+    this.running = false;
+    this.parked.clear();
+    while (this.connections.some((c) => c.unacknowledged > 0)) await new Promise((r) => setTimeout(r, 20));
+  }
+
+  /**
+   * Publishes `messagesPerConnection` more messages on every connection without waiting for
+   * commits (after `pause()`); resolves with the samples sent once the broker acknowledged them all.
+   */
+  async backlog(messagesPerConnection: number): Promise<number> {
+    const done = new Promise<void>((resolve) => (this.backlogDone = resolve));
+    for (const conn of this.connections) this.backlogLeft.set(conn, messagesPerConnection);
+    for (const conn of this.connections) this.spend(conn);
+    await done;
+    this.backlogDone = null;
+    this.backlogLeft.clear();
+    return this.connections.reduce((n, c) => n + messagesPerConnection * c.samplesPerMessage, 0);
   }
 
   async stop(): Promise<void> {
