@@ -1,7 +1,7 @@
 // Live streams as plain node:http responses, fanned out per scope. Streams that watch the same
 // scope (the organisation, one site's tanks, one tank) form one group with one listener on the live
-// hub: the group filters and encodes each broker message once, gathers what arrives for 25 ms, and
-// writes the same Buffer to every member's socket. A member has only its response, its last event
+// hub: the group filters and encodes each broker message once, gathers what arrives within a few
+// milliseconds, and writes the same Buffer to every member's socket. A member has only its response, its last event
 // id and, while it backfills from the database, the messages that wait for it.
 import type { ServerResponse } from "node:http";
 import { and, eq, inArray } from "drizzle-orm";
@@ -19,8 +19,13 @@ export const RESUME_SLACK_MS = 10_000;
 const RETRY_MS = 2_000;
 /** Unread bytes after which a stalled client is dropped (its browser reconnects and backfills). */
 export const MAX_UNREAD_BYTES = 4 * 1024 * 1024;
-/** Live messages of a group wait this long for others, so a thousand sockets are written together. */
-const COALESCE_MS = 25;
+/**
+ * A group writes its sockets at most once per FLUSH_INTERVAL_MS, and GATHER_MS after the first
+ * message that waits: one ingest commit publishes the batches of all its tanks within a few
+ * milliseconds, so they go out together in one write per socket without waiting a whole interval.
+ */
+const GATHER_MS = 5;
+const FLUSH_INTERVAL_MS = 25;
 
 const EVENT_NAME: Record<OrgEvent["type"], string> = {
   "incident.opened": "incident",
@@ -157,6 +162,7 @@ class ScopeGroup {
   readonly clients = new Set<StreamClient>();
   private pending: Pending[] = [];
   private timer: NodeJS.Timeout | null = null;
+  private flushedAt = 0;
   /** The newest event id the group's shared bytes carried. */
   private lastId = 0;
   private readonly unlisten: () => void;
@@ -182,11 +188,12 @@ class ScopeGroup {
       if (m.event.orgId !== this.scope.orgId || !tankInScope(this.scope, m.event.tankId)) return;
       this.pending.push({ kind: "event", bytes: encodedEvent(m) });
     }
-    this.timer ??= setTimeout(this.flush, COALESCE_MS);
+    this.timer ??= setTimeout(this.flush, Math.max(GATHER_MS, this.flushedAt + FLUSH_INTERVAL_MS - Date.now()));
   }
 
   private readonly flush = () => {
     this.timer = null;
+    this.flushedAt = Date.now();
     const items = this.pending;
     this.pending = [];
     if (!items.length) return;
