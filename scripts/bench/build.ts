@@ -6,8 +6,8 @@ import fs from "node:fs";
 import path from "node:path";
 import { REPO_ROOT } from "../../tests/integration/helpers/processes";
 
-const SOURCE_DIRS = ["app", "components", "lib", "db", "ingest", "public", "server"];
-const SOURCE_FILES = ["next.config.ts", "package-lock.json", "postcss.config.mjs", "tailwind.config.ts", "tsconfig.json"];
+const SOURCE_DIRS = ["app", "components", "lib", "db", "ingest", "public"];
+const SOURCE_FILES = ["next.config.ts", "server/security-headers.ts", "package-lock.json", "postcss.config.mjs", "tailwind.config.ts", "tsconfig.json"];
 
 function newestMtime(entry: string): number {
   let stat: fs.Stats;
