@@ -141,6 +141,7 @@ for (const signal of ["SIGTERM", "SIGINT"] as const) {
       .then(() => pipeline.flush())
       .then(() => session?.close(shared !== null))
       .then(() => {
+        writer.close();
         log.info("stopped");
         process.exit(0);
       })

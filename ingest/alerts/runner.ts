@@ -6,10 +6,10 @@ import { and, eq, isNotNull, isNull, lte, ne } from "drizzle-orm";
 import type { Db } from "../../db/client";
 import { incidentEvents, incidents, sites } from "../../db/schema";
 import { releaseHold, markDosingSent } from "../../db/queries/holds";
-import { evaluateReading, evaluateTime, isFiring, restoreProbeState, restoreTankState, formatDuration, type AlertEvent, type Cause } from "../../lib/alerts";
+import { evaluateReading, evaluateTime, isFiring, restoreProbeState, restoreTankState, formatDuration, type AlertEvent, type Cause, type ReadingTankContext } from "../../lib/alerts";
 import type { CalibratedReading } from "../payloads";
 import { sendMail as smtpSendMail } from "../mailer";
-import { calibrationInfo, lastReadingTimes, loadContext, loadHolds, settlingFrom, timeRuleHold, type AlertContext, type HoldRow, type TankContext, type TankHolds } from "./context";
+import { calibrationInfo, lastReadingTimes, loadContext, loadHolds, settlingFrom, timeRuleHold, type AlertContext, type HoldRow, type ProbeContext, type TankContext, type TankHolds } from "./context";
 import { sendDueDigests } from "./digest";
 import { DOSING_PUBLISH, inhibitMessage, resumeMessage } from "./dosing-command";
 import { applyAlertEvents, type Applied, type IncidentChange } from "./incident-store";
@@ -146,32 +146,58 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
     return !!h && (h.tank !== null || h.probes.some((p) => p.probeId === probeId));
   }
 
+  /** What the reading rules need of a probe that does not change within one batch. */
+  interface ProbeInBatch {
+    key: string;
+    probe: ProbeContext;
+    tank: TankContext;
+    probeId: string;
+    tankInput: ReadingTankContext;
+  }
+
   async function handleReadings(readings: readonly CommittedReading[]) {
     if (readings.length === 0) return;
     let c = await context(false);
     if (readings.some((r) => !c.probes.has(r.probeId))) c = await context(true); // a probe added since loading
     const holdsByTank = await loadHolds(db);
-    await ensureStates([...new Set(readings.map((r) => probeKey(r.probeId)))]);
+    // Worked out once per probe per batch, not for each of its readings.
+    const inBatch = new Map<number, ProbeInBatch | null>();
+    for (const r of readings) {
+      if (inBatch.has(r.probeId)) continue;
+      const probe = c.probes.get(r.probeId);
+      const tank = probe ? c.tanks.get(probe.tankId) : undefined;
+      if (!probe || !tank) {
+        inBatch.set(r.probeId, null);
+        continue;
+      }
+      const h = holdsByTank.get(tank.id);
+      inBatch.set(r.probeId, {
+        key: probeKey(probe.id),
+        probe,
+        tank,
+        probeId: String(probe.id),
+        tankInput: { band: tank.band, hold: { active: isHeld(h, probe.id), releasedAt: settlingFrom(h, probe.id) } },
+      });
+    }
+    const known = [...inBatch.values()].filter((p): p is ProbeInBatch => p !== null);
+    await ensureStates(known.map((p) => p.key));
     const working = new Map<string, unknown>();
     const eventsByTank = new Map<number, AlertEvent[]>();
     const sorted = [...readings].sort((a, b) => a.ts - b.ts);
     for (const r of sorted) {
-      const probe = c.probes.get(r.probeId);
-      const tank = probe ? c.tanks.get(probe.tankId) : undefined;
-      if (!probe || !tank) continue;
-      const key = probeKey(probe.id);
-      const h = holdsByTank.get(tank.id);
+      const p = inBatch.get(r.probeId);
+      if (!p) continue;
       const result = evaluateReading({
-        state: (working.has(key) ? working.get(key) : states.get(key)) as never,
-        probeId: String(probe.id),
+        state: (working.has(p.key) ? working.get(p.key) : states.get(p.key)) as never,
+        probeId: p.probeId,
         // lib/alerts works in mS/cm; readings carry µS/cm.
         reading: { ts: r.ts, value: r.value === null ? null : r.kind === "ec" ? r.value / 1000 : r.value, raw: r.raw, measure: r.kind, quality: r.quality },
-        tank: { band: tank.band, hold: { active: isHeld(h, probe.id), releasedAt: settlingFrom(h, probe.id) } },
-        calibration: { status: calibrationInfo(tank, probe, r.ts).status },
-        settings: tank.settings,
+        tank: p.tankInput,
+        calibration: { status: calibrationInfo(p.tank, p.probe, r.ts).status },
+        settings: p.tank.settings,
       });
-      working.set(key, result.state);
-      if (result.events.length) eventsByTank.set(tank.id, [...(eventsByTank.get(tank.id) ?? []), ...result.events]);
+      working.set(p.key, result.state);
+      if (result.events.length) eventsByTank.set(p.tank.id, [...(eventsByTank.get(p.tank.id) ?? []), ...result.events]);
     }
     await commit(c, working, eventsByTank, clock());
   }

@@ -12,6 +12,7 @@ import Database from "libsql";
 import { createClient, type InArgs } from "@libsql/client";
 import type { ProbeKind, QualityFlag } from "../../db/schema";
 import type { DeadLetter } from "./refusals";
+import { ThreadedWriter } from "./threaded-writer";
 import { aggregateRollups, hourlyOf, hourlyUpsertSql, rollupUpsertSql, type RollupDelta } from "./rollups";
 
 export interface PendingRow {
@@ -28,6 +29,9 @@ export interface PendingRow {
   tankId: number;
   orgId: number;
 }
+
+/** The fields of a reading that are stored. */
+export type StoredRow = Pick<PendingRow, "probeId" | "ts" | "raw" | "value" | "quality" | "calibrationRunId">;
 
 export interface ReadingWriter {
   /** Writes one batch in one transaction; resolves with the rows that were new. */
@@ -46,8 +50,9 @@ const INSERT_DEAD_LETTER = "INSERT INTO dead_letters (at, topic, reason, sample)
 const PRUNE_DEAD_LETTERS = "DELETE FROM dead_letters WHERE reason = ? AND id NOT IN (SELECT id FROM dead_letters WHERE reason = ? ORDER BY id DESC LIMIT ?)";
 const TOUCH_DEVICE = "UPDATE devices SET last_seen_at = ? WHERE controller_id = ? AND revoked_at IS NULL";
 
+/** A local file is written on a thread of its own (./writer-thread.ts); a libSQL server by the client. */
 export function openReadingWriter(o: WriterOptions): ReadingWriter {
-  return o.url.startsWith("file:") ? new NativeWriter(o) : new ClientWriter(o);
+  return o.url.startsWith("file:") ? new ThreadedWriter(o) : new ClientWriter(o);
 }
 
 /** The file path in a `file:` URL (file:/abs, file:///abs, file:relative; query dropped). */
@@ -63,7 +68,8 @@ const insertManySql = (n: number) =>
   `INSERT INTO readings (probe_id, ts, raw, value, quality, calibration_run_id) VALUES ${Array(n).fill("(?,?,?,?,?,?)").join(",")}
    ON CONFLICT DO NOTHING`;
 
-class NativeWriter implements ReadingWriter {
+/** Runs on the writer thread: synchronous, one transaction per call. */
+export class NativeWriter {
   private readonly db: Database.Database;
   private readonly inserts = new Map<number, Database.Statement<unknown[]>>();
   private readonly upsert: Database.Statement<unknown[]>;
@@ -100,8 +106,8 @@ class NativeWriter implements ReadingWriter {
   }
 
   /** Inserts the rows; returns those that were new (a repeat, stored or in the batch, is not). */
-  private insertRows(rows: PendingRow[]): PendingRow[] {
-    const inserted: PendingRow[] = [];
+  private insertRows<R extends StoredRow>(rows: R[]): R[] {
+    const inserted: R[] = [];
     for (let i = 0; i < rows.length; i += ROWS_PER_INSERT) {
       const chunk = rows.slice(i, i + ROWS_PER_INSERT);
       const args: unknown[] = [];
@@ -120,8 +126,8 @@ class NativeWriter implements ReadingWriter {
     return inserted;
   }
 
-  async write(rows: PendingRow[], deadLetters: DeadLetter[], seen: Map<string, number>): Promise<PendingRow[]> {
-    let inserted: PendingRow[];
+  write<R extends StoredRow>(rows: R[], deadLetters: DeadLetter[], seen: Map<string, number>): R[] {
+    let inserted: R[];
     this.tx.begin.run();
     try {
       inserted = this.insertRows(rows);

@@ -2,13 +2,14 @@
 // batch in one transaction, then acknowledge its MQTT messages, stream its new readings and
 // hand them to the alert hook. One flush runs at a time; messages keep arriving meanwhile.
 import { controllerOfRawTopic, topics } from "../topics";
-import { isFuture, type RawSample, type ReadingBatch, type RefusalReason } from "../payloads";
+import { isFuture, type RawSample, type RefusalReason } from "../payloads";
 import type { CommittedReading, IngestHooks } from "../hooks";
 import { errorText, type Logger } from "../log";
 import type { PendingRow, ReadingWriter } from "./batch-writer";
 import type { CalibrationBook } from "./calibrations";
 import { correct, isPhysical } from "./correct";
 import { decodeRaw } from "./decode";
+import { encodeReadingBatch } from "./live-batch";
 import type { IngestMetrics } from "./health";
 import type { HoldBook } from "./holds";
 import type { ProbeInfo, Registry } from "./registry";
@@ -259,13 +260,7 @@ export class Pipeline {
       if (list) list.push(r);
       else byTank.set(r.tankId, [r]);
     }
-    for (const [tankId, list] of byTank) {
-      const batch: ReadingBatch = {
-        v: 1,
-        readings: list.map((r) => ({ v: 1, orgId: r.orgId, tankId, probeId: r.probeId, kind: r.kind, ts: r.ts, raw: r.raw, value: r.value, quality: r.quality })),
-      };
-      this.d.publish(topics.reading(list[0].orgId, tankId), JSON.stringify(batch));
-    }
+    for (const [tankId, list] of byTank) this.d.publish(topics.reading(list[0].orgId, tankId), encodeReadingBatch(tankId, list));
   }
 
   private async runHook(rows: PendingRow[]) {

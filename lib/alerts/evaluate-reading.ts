@@ -48,27 +48,31 @@ export interface EvaluateReadingResult {
   events: AlertEvent[];
 }
 
+const NO_DELAY = { fireDelayMs: 0, clearDelayMs: 0 };
+
 const finite = (v: number | null | undefined): number | null =>
   typeof v === "number" && Number.isFinite(v) ? v : null;
 
 /**
- * States this function returned. It never mutates its input and builds every returned state
- * from fresh objects, so one of them needs no `restoreProbeState` when it comes back as the
- * next reading's input (the alert runner passes them straight on; restoring each reading's state
- * again was a large share of the ingest's CPU per reading).
+ * States this function returned carry this brand. It never mutates its input and builds every
+ * returned state from fresh objects, so a branded state needs no `restoreProbeState` when it
+ * comes back as the next reading's input (the alert runner passes them straight on; restoring
+ * each reading's state again was a large share of the ingest's CPU per reading). A symbol key is
+ * not persisted (JSON leaves it out), so a state read back from the database is always restored.
  */
-const evaluated = new WeakSet<object>();
+const EVALUATED: unique symbol = Symbol("evaluated");
+type BrandedState = ProbeAlertState & { [EVALUATED]?: true };
 
-function finished(result: EvaluateReadingResult): EvaluateReadingResult {
-  evaluated.add(result.state);
-  return result;
+function finished(state: ProbeAlertState, events: AlertEvent[]): EvaluateReadingResult {
+  (state as BrandedState)[EVALUATED] = true;
+  return { state, events };
 }
 
 function previousState(state: EvaluateReadingInput["state"]): ProbeAlertState {
-  return typeof state === "object" && state !== null && evaluated.has(state) ? state : restoreProbeState(state);
+  return typeof state === "object" && state !== null && (state as BrandedState)[EVALUATED] === true ? state : restoreProbeState(state);
 }
 
-/** What one evaluation's rule steps share (built once per reading instead of a closure per reading). */
+/** What one evaluation's rule steps share (built once per reading). */
 interface RuleStep {
   settings: RuleSettings;
   next: ProbeAlertState;
@@ -76,31 +80,25 @@ interface RuleStep {
   events: AlertEvent[];
   ts: number;
   value: number | null;
-  note: string;
+  untrusted: CalibrationStatus | null;
 }
 
-function suspendAll(next: ProbeAlertState, enabled: readonly ReadingCause[]) {
-  for (const c of enabled) next.causes[c] = suspendTracker(next.causes[c]);
+function suspendAll(next: ProbeAlertState, settings: RuleSettings) {
+  for (const c of READING_CAUSES) if (settings.causes[c].enabled) next.causes[c] = suspendTracker(next.causes[c]);
 }
 
-function runRule(
-  s: RuleStep,
-  cause: ReadingCause,
-  cond: Condition | null,
-  delays: { fireDelayMs: number; clearDelayMs: number },
-  fireMessage: () => string,
-  clearMessage: () => string,
-  withNote = true,
-): "fire" | "clear" | null {
+/** Steps one enabled rule's tracker; returns the transition, for the caller to word (`emit`). */
+function runRule(s: RuleStep, cause: ReadingCause, cond: Condition | null, delays: { fireDelayMs: number; clearDelayMs: number }): "fire" | "clear" | null {
   if (!s.settings.causes[cause].enabled) return null;
   const r = stepTracker(s.next.causes[cause], cond, { at: s.ts, fireDelayMs: delays.fireDelayMs, clearDelayMs: delays.clearDelayMs });
   s.next.causes[cause] = r.tracker;
-  if (r.transition === "fire") {
-    s.events.push(makeEvent(s.ctx, "fire", cause, fireMessage() + (withNote ? s.note : ""), s.value));
-  } else if (r.transition === "clear") {
-    s.events.push(makeEvent(s.ctx, "clear", cause, clearMessage(), s.value));
-  }
   return r.transition;
+}
+
+/** Records a transition's event; a firing reading notes an untrusted calibration unless told not to. */
+function emit(s: RuleStep, transition: "fire" | "clear", cause: ReadingCause, message: string, withNote = true) {
+  const text = transition === "fire" && withNote ? message + calibrationNote(s.untrusted) : message;
+  s.events.push(makeEvent(s.ctx, transition, cause, text, s.value));
 }
 
 /** Which "not trusted" status to report: the probe's status, else the reading's flag. */
@@ -133,7 +131,7 @@ export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingRes
   const { reading, tank } = input;
   const ts = finite(reading.ts);
   if (ts === null || (prev.lastTs !== null && ts <= prev.lastTs)) {
-    return finished({ state: prev, events: [] });
+    return finished(prev, []);
   }
   const { measure, quality } = reading;
   const value = finite(reading.value);
@@ -160,9 +158,8 @@ export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingRes
   const events: AlertEvent[] = [];
 
   // Disabled rules never fire; one that was firing is cleared (closes its incident).
-  const enabled = READING_CAUSES.filter((c) => settings.causes[c].enabled);
   for (const c of READING_CAUSES) {
-    if (enabled.includes(c)) continue;
+    if (settings.causes[c].enabled) continue;
     const r = forceClear(next.causes[c]);
     next.causes[c] = r.tracker;
     if (r.transition === "clear") {
@@ -172,10 +169,10 @@ export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingRes
   }
   // ---- hold: silence everything, forget held readings --------------------------------
   if (tank.hold.active || quality === "held") {
-    suspendAll(next, enabled);
+    suspendAll(next, settings);
     next.history = [];
     next.flat = null;
-    return finished({ state: next, events });
+    return finished(next, events);
   }
 
   // ---- track history (also while settling) ---------------------------------------------
@@ -199,81 +196,55 @@ export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingRes
   // ---- settling after release ------------------------------------------------------------
   const releasedAt = finite(tank.hold.releasedAt);
   if (releasedAt !== null && ts < releasedAt + settings.settling.afterReleaseMs) {
-    suspendAll(next, enabled);
-    return finished({ state: next, events });
+    suspendAll(next, settings);
+    return finished(next, events);
   }
 
   // ---- rules -------------------------------------------------------------------------------
-  const step: RuleStep = { settings, next, ctx, events, ts, value, note: calibrationNote(untrusted) };
+  // Each rule's message is worded only when it fires or clears (not built for every reading).
+  const step: RuleStep = { settings, next, ctx, events, ts, value, untrusted };
 
-  runRule(
-    step,
-    "implausible",
-    implausibleCondition(value, quality, range),
-    settings.implausible,
-    () => implausibleFireMessage(measure, value, range),
-    () => implausibleClearMessage(measure, value),
-  );
+  const impl = runRule(step, "implausible", implausibleCondition(value, quality, range), settings.implausible);
+  if (impl) emit(step, impl, "implausible", impl === "fire" ? implausibleFireMessage(measure, value, range) : implausibleClearMessage(measure, value));
 
   const band = tank.band[measure] ?? null;
   const oob = usable ? outOfBandCondition(value, band, settings.outOfBand.hysteresisFraction) : null;
-  const oobT = runRule(
-    step,
-    "out-of-band",
-    oob,
-    settings.outOfBand,
-    () => outOfBandFireMessage(measure, value as number, band as Band, oob?.side ?? "above"),
-    () => outOfBandClearMessage(measure, value as number, band),
-  );
-  if (oobT === "fire") next.bandSide = oob?.side ?? null;
-  if (oobT === "clear") next.bandSide = null;
+  const oobT = runRule(step, "out-of-band", oob, settings.outOfBand);
+  if (oobT === "fire") {
+    next.bandSide = oob?.side ?? null;
+    emit(step, oobT, "out-of-band", outOfBandFireMessage(measure, value as number, band as Band, oob?.side ?? "above"));
+  } else if (oobT === "clear") {
+    next.bandSide = null;
+    emit(step, oobT, "out-of-band", outOfBandClearMessage(measure, value as number, band));
+  }
 
   const maxRate = settings.rateOfChange.maxPerMinute[measure];
-  runRule(
-    step,
-    "rate-of-change",
-    usable && !dry ? rateCondition(rate, maxRate) : null,
-    settings.rateOfChange,
-    () => rateFireMessage(measure, value as number, rate as number, maxRate),
-    () => rateClearMessage(measure, value as number, maxRate),
-  );
+  const rateT = runRule(step, "rate-of-change", usable && !dry ? rateCondition(rate, maxRate) : null, settings.rateOfChange);
+  if (rateT) emit(step, rateT, "rate-of-change", rateT === "fire" ? rateFireMessage(measure, value as number, rate as number, maxRate) : rateClearMessage(measure, value as number, maxRate));
 
   const flat = next.flat;
-  runRule(
+  const flatT = runRule(
     step,
     "flatline",
     raw !== null ? flatlineCondition(flat, ts, settings.flatline.windowMs[measure], settings.flatline.minSamples) : null,
-    { fireDelayMs: 0, clearDelayMs: 0 },
-    () => (flat ? flatlineFireMessage(measure, flat, ts) : ""),
-    () => flatlineClearMessage(measure),
-    false, // a stuck raw signal is not about calibration
+    NO_DELAY,
   );
+  // A stuck raw signal is not about calibration: no note.
+  if (flatT) emit(step, flatT, "flatline", flatT === "fire" ? (flat ? flatlineFireMessage(measure, flat, ts) : "") : flatlineClearMessage(measure), false);
 
   if (measure === "ph") {
     const bl = settings.bufferLike;
     const buffer = usable ? nearExcludedBuffer(value, band, bl.buffers, bl.tolerance) : null;
     const pendingSince = next.causes["buffer-like"].pendingSince ?? ts;
-    runRule(
-    step,
-      "buffer-like",
-      usable ? bufferLikeCondition(buffer) : null,
-      bl,
-      () => bufferLikeFireMessage(value as number, buffer as number, band as Band, ts - pendingSince),
-      () => bufferLikeClearMessage(value as number),
-    );
+    const blT = runRule(step, "buffer-like", usable ? bufferLikeCondition(buffer) : null, bl);
+    if (blT) emit(step, blT, "buffer-like", blT === "fire" ? bufferLikeFireMessage(value as number, buffer as number, band as Band, ts - pendingSince) : bufferLikeClearMessage(value as number));
   }
 
   if (measure === "ec") {
     const os = settings.outOfSolution;
-    runRule(
-    step,
-      "out-of-solution",
-      usable ? outOfSolutionCondition(value, os.maxEc) : null,
-      os,
-      () => outOfSolutionFireMessage(value as number),
-      () => outOfSolutionClearMessage(value as number, os.maxEc),
-    );
+    const osT = runRule(step, "out-of-solution", usable ? outOfSolutionCondition(value, os.maxEc) : null, os);
+    if (osT) emit(step, osT, "out-of-solution", osT === "fire" ? outOfSolutionFireMessage(value as number) : outOfSolutionClearMessage(value as number, os.maxEc));
   }
 
-  return finished({ state: next, events });
+  return finished(next, events);
 }

@@ -11,8 +11,8 @@ import { createManualCalibration } from "@/db/queries/calibration-manual";
 import { probeRecord } from "@/db/queries/calibration-history";
 import { calibrationCompliance } from "@/db/queries/calibration-compliance";
 import { addSpotCheck, deleteSpotCheck, editSpotCheck, importSpotChecksCsv, listSpotChecks } from "@/db/queries/spot-checks";
-import { ApiError } from "@/app/_server/errors";
 import { DAY_MS, bufferPh, ecStandardAt, nernstSlopeMv, phFromMv } from "@/lib/calibration";
+import { refusal } from "./helpers/refusal";
 import { useTestDatabase } from "./helpers/use-test-database";
 
 const T0 = Date.UTC(2026, 11, 2, 10, 0);
@@ -43,16 +43,6 @@ async function feed(probeId: number, end: number, seconds: number, raw: (ts: num
 
 async function feedTemperature(end: number, tempC: number) {
   await db.insert(schema.readings).values({ probeId: temp, ts: end, raw: tempC, value: tempC, quality: "ok" }).onConflictDoNothing();
-}
-
-async function refusal(p: Promise<unknown>): Promise<ApiError> {
-  try {
-    await p;
-  } catch (e) {
-    if (e instanceof ApiError) return e;
-    throw e;
-  }
-  throw new Error("expected a refusal");
 }
 
 const testDb = useTestDatabase({ label: "cal", seed: false, per: "file" });
@@ -109,6 +99,19 @@ async function phRun(at: number, electrode: { slopePct: number; offsetMv: number
   }
   view = await getRunView(db, user.orgId, runId);
   return { runId, view, t };
+}
+
+/** Skips the as-found check and confirms cleaning, so the run's next step is its first point. */
+async function passPreparation(runId: number, at: number) {
+  await confirmStep(db, user, runId, "skip-as-found", at);
+  await confirmStep(db, user, runId, "clean", at);
+}
+
+/** Starts a guided pH run at `at` on the calibrated pH probe and brings it to its first point. */
+async function runReadyForPoints(at: number): Promise<number> {
+  const { runId } = await startRun(db, user, { tankId, probeId: ph }, at);
+  await passPreparation(runId, at);
+  return runId;
 }
 
 describe("guided pH run", () => {
@@ -168,9 +171,7 @@ describe("guided pH run", () => {
 
   it("refuses an expired buffer with the reason", async () => {
     const at = T0 + 6 * DAY_MS;
-    const { runId } = await startRun(db, user, { tankId, probeId: ph }, at);
-    await confirmStep(db, user, runId, "skip-as-found", at);
-    await confirmStep(db, user, runId, "clean", at);
+    const runId = await runReadyForPoints(at);
     await feedTemperature(at + 60 * SEC, 20);
     await feed(ph, at + 60 * SEC, 35, () => 0);
     const err = await refusal(capturePoint(db, user, runId, { purpose: "point", lot: "OLD", expiresOn: "2026-11-30" }, at + 60 * SEC));
@@ -183,9 +184,7 @@ describe("guided pH run", () => {
 
   it("captures an unsettled reading only with a note", async () => {
     const at = T0 + 7 * DAY_MS;
-    const { runId } = await startRun(db, user, { tankId, probeId: ph }, at);
-    await confirmStep(db, user, runId, "skip-as-found", at);
-    await confirmStep(db, user, runId, "clean", at);
+    const runId = await runReadyForPoints(at);
     const t = at + 60 * SEC;
     await feedTemperature(t, 20);
     await feed(ph, t, 35, (ts) => (ts - t) / 1000); // drifting 1 mV a second
@@ -203,8 +202,7 @@ describe("guided pH run", () => {
     const { runId } = await startRun(db, user, { tankId, probeId: ph }, at);
     const outOfOrder = await refusal(capturePoint(db, user, runId, { purpose: "point", lot: "A", expiresOn: "2027-01-01" }, at));
     expect(outOfOrder.status).toBe(409);
-    await confirmStep(db, user, runId, "skip-as-found", at);
-    await confirmStep(db, user, runId, "clean", at);
+    await passPreparation(runId, at);
     const stale = await refusal(capturePoint(db, user, runId, { purpose: "point", lot: "A", expiresOn: "2027-01-01", tempC: 20 }, at + 10 * 60 * SEC));
     expect(stale.message).toMatch(/No reading from the probe/);
     await abandonRun(db, user, runId, at);
@@ -212,9 +210,7 @@ describe("guided pH run", () => {
 
   it("judges a point kept offline as of when capture was pressed, and saves a resent key once", async () => {
     const at = T0 + 8.5 * DAY_MS;
-    const { runId } = await startRun(db, user, { tankId, probeId: ph }, at);
-    await confirmStep(db, user, runId, "skip-as-found", at);
-    await confirmStep(db, user, runId, "clean", at);
+    const runId = await runReadyForPoints(at);
     const pressed = at + 60 * SEC;
     await feedTemperature(pressed, 20);
     await feed(ph, pressed, 35, () => electrodeMv(bufferPh("tech-7.00", 20), 20, 98, 2));

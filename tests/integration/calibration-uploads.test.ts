@@ -5,8 +5,8 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Db } from "@/db/client";
 import * as schema from "@/db/schema";
-import { ApiError } from "@/app/_server/errors";
 import { MAX_UPLOAD_BYTES, readUpload, sniffType, storedName, storeUpload } from "@/app/_server/storage";
+import { refusal } from "./helpers/refusal";
 import { useTestDatabase } from "./helpers/use-test-database";
 
 const testDb = useTestDatabase({ label: "uploads", seed: false, per: "file" });
@@ -28,16 +28,6 @@ beforeAll(async () => {
 afterAll(() => {
   delete process.env.UPLOAD_DIR;
 });
-
-async function refusal(p: Promise<unknown>) {
-  try {
-    await p;
-  } catch (e) {
-    if (e instanceof ApiError) return e;
-    throw e;
-  }
-  throw new Error("expected a refusal");
-}
 
 describe("certificate uploads", () => {
   it("knows PDF, PNG and JPEG by their first bytes", () => {

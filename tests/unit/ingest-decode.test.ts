@@ -1,5 +1,5 @@
-// The ingest's hand-checked sample validation gives the same verdicts as the zod schema of a raw
-// message (ingest/payloads.ts), on good messages and on every kind of bad sample.
+// The ingest's hand-checked validation gives the same verdicts as the zod schema of a raw
+// message (ingest/payloads.ts), on good messages, on every kind of bad envelope and bad sample.
 import { describe, expect, it } from "vitest";
 import { rawMessage } from "../../ingest/payloads";
 import { decodeRaw } from "../../ingest/worker/decode";
@@ -33,6 +33,12 @@ const badSamples: [string, unknown][] = [
 ];
 
 describe("decodeRaw", () => {
+  it("accepts the envelope's edge values as the schema does", () => {
+    for (const message of [{ v: 1, seq: 0, samples: [good] }, { v: 1, seq: Number.MAX_SAFE_INTEGER, samples: Array(500).fill(good) }]) {
+      expect(decodeRaw(bytes(message))).toEqual({ ok: true, message: decodeRawWithZod(message) });
+    }
+  });
+
   it("accepts what the schema accepts, keeping only the known fields", () => {
     const message = { v: 1, seq: 7, extra: true, samples: [good, { ...good, serial: "x".repeat(64), signal: -5000, extra: 1 }, { ...good, signal: 1_000_000 }] };
     const decoded = decodeRaw(bytes(message));
@@ -46,7 +52,25 @@ describe("decodeRaw", () => {
   });
 
   it("refuses bad envelopes, bad JSON and oversize payloads with their reasons", () => {
-    for (const message of [{ v: 2, seq: 1, samples: [good] }, { v: 1, seq: -1, samples: [good] }, { v: 1, seq: 1, samples: [] }, { v: 1, seq: 1, samples: Array(501).fill(good) }, { v: 1, seq: 1 }]) {
+    const badEnvelopes: unknown[] = [
+      { v: 2, seq: 1, samples: [good] },
+      { v: "1", seq: 1, samples: [good] },
+      { seq: 1, samples: [good] },
+      { v: 1, seq: -1, samples: [good] },
+      { v: 1, seq: 1.5, samples: [good] },
+      { v: 1, seq: 2 ** 60, samples: [good] },
+      { v: 1, seq: "1", samples: [good] },
+      { v: 1, samples: [good] },
+      { v: 1, seq: 1, samples: [] },
+      { v: 1, seq: 1, samples: Array(501).fill(good) },
+      { v: 1, seq: 1, samples: { 0: good } },
+      { v: 1, seq: 1 },
+      [{ v: 1, seq: 1, samples: [good] }],
+      null,
+      7,
+      true,
+    ];
+    for (const message of badEnvelopes) {
       expect(decodeRawWithZod(message)).toBeNull();
       expect(decodeRaw(bytes(message))).toEqual({ ok: false, reason: "invalid-schema" });
     }

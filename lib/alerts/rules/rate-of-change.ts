@@ -34,6 +34,13 @@ export function updateHistory(
   windowMs: number,
   sampleIntervalMs: number,
 ): RateSample[] {
+  // The usual case at any real rate: a newer reading within the sampling interval of the last
+  // sample, with no newer sample yet `windowMs` old. Nothing would change: the history is
+  // returned as it is (it is never mutated) instead of copied for every reading.
+  const newest = history[history.length - 1];
+  if (newest && newest.ts < sample.ts && sample.ts - newest.ts < sampleIntervalMs && (history.length < 2 || sample.ts - history[1].ts < windowMs)) {
+    return history as RateSample[];
+  }
   const out = history.filter((s) => s.ts < sample.ts);
   const last = out[out.length - 1];
   if (!last || sample.ts - last.ts >= sampleIntervalMs) out.push({ ...sample });
