@@ -21,7 +21,8 @@ Object.assign(process.env, { NODE_ENV: process.env.NODE_ENV ?? (dev ? "developme
 exitUnlessSecretsSet("web", ["AUTH_SECRET", "MQTT_WEB_PASSWORD"]);
 
 const port = Number(args.port ?? process.env.PORT ?? 3000);
-const hostname = args.hostname ?? process.env.HOSTNAME;
+// Every interface unless -H says otherwise, as `next start`.
+const hostname = args.hostname;
 
 const { default: next } = await import("next");
 const { STREAM_PATH, handleStream } = await import("./stream/handler");
