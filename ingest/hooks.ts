@@ -7,11 +7,13 @@
 // without locking. It runs after the batch's MQTT acknowledgements went out; an error is logged
 // and counted (hookErrors in the health snapshot), never retried. `stop` runs on shutdown.
 //
-// The alert engine (ingest/alerts) is the plug-in: every committed batch goes through the rules.
+// The alert engine (ingest/alerts) is the plug-in: every committed batch goes through the rules,
+// on a thread of the ingest's own so they do not compete with reading the broker.
 // When several workers share the broker subscription (`electedAs` set), one of them, elected by
 // a lease, runs the alerts over every worker's committed rows instead (ingest/alerts/elected.ts).
 import type { Db } from "../db/client";
 import { startElectedAlerts } from "./alerts/elected";
+import { startThreadedHooks } from "./alerts/threaded";
 import { fromEnv, startAlerts } from "./alerts/wire";
 import type { CalibratedReading } from "./payloads";
 
@@ -34,7 +36,11 @@ export interface IngestHooks {
 
 export type HooksFactory = (ctx: HookContext) => IngestHooks;
 
-export const createHooks: HooksFactory = (ctx) =>
+/** The ingest's hooks: the alert engine, on a thread of its own (./alerts/threaded.ts). */
+export const createHooks: HooksFactory = (ctx) => startThreadedHooks(ctx);
+
+/** The same hooks run where they are called (the alert thread runs these). */
+export const createInPlaceHooks: HooksFactory = (ctx) =>
   ctx.electedAs
     ? startElectedAlerts({
         db: ctx.db,

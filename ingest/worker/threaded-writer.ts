@@ -2,7 +2,8 @@
 // contract as writing in place. A write resolves after its transaction committed on the thread,
 // so the pipeline still acknowledges only committed messages. If the thread dies, the writes in
 // flight fail (the pipeline keeps their batch and retries) and the next write starts a new thread.
-import { Worker } from "node:worker_threads";
+import type { Worker } from "node:worker_threads";
+import { startThread } from "../thread";
 import type { PendingRow, ReadingWriter, WriterOptions } from "./batch-writer";
 import type { DeadLetter } from "./refusals";
 import { packRows, type WriteReply, type WriteRequest } from "./writer-protocol";
@@ -24,7 +25,7 @@ export class ThreadedWriter implements ReadingWriter {
 
   private thread(): Worker {
     if (this.worker) return this.worker;
-    const worker = new Worker(new URL("./writer-thread-entry.mjs", import.meta.url), { workerData: this.o });
+    const worker = startThread(new URL("./writer-thread.ts", import.meta.url), { writer: this.o });
     worker.on("message", (reply: WriteReply) => {
       const w = this.inFlight.get(reply.id);
       if (!w) return;

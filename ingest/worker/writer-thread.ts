@@ -8,7 +8,7 @@ import { unpackRows, type WriteReply, type WriteRequest } from "./writer-protoco
 
 const port = parentPort;
 if (!port) throw new Error("writer-thread.ts runs as a worker thread of the ingest");
-const writer = new NativeWriter(workerData as WriterOptions);
+const writer = new NativeWriter((workerData as { writer: WriterOptions }).writer);
 
 port.on("message", (m: WriteRequest | "close") => {
   if (m === "close") {
