@@ -216,6 +216,10 @@ export class Pipeline {
       this.releaseWaiters();
       if (inserted.length) {
         this.stream(inserted);
+        // The hook may wait for the broker's PUBACK of its own publishes (incident events, dosing
+        // commands), and a paused session reads nothing, PUBACKs included: reading resumes
+        // before the hook runs, or the two would wait for each other for ever.
+        this.releaseWaiters(true);
         await this.runHook(inserted);
       }
     }
@@ -245,8 +249,8 @@ export class Pipeline {
     return out;
   }
 
-  private releaseWaiters() {
-    if (this.current.rows.length + this.inFlight > this.d.maxPendingRows / 2) return;
+  private releaseWaiters(force = false) {
+    if (!force && this.current.rows.length + this.inFlight > this.d.maxPendingRows / 2) return;
     const waiters = this.waiters;
     this.waiters = [];
     for (const w of waiters) w();
