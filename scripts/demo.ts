@@ -44,7 +44,7 @@ const commands = [
   { name: "broker", command: "tsx ingest/broker-main.ts", prefixColor: "blue" },
   { name: "ingest", command: "tsx ingest/main.ts", prefixColor: "cyan" },
   { name: "sim", command: "tsx scripts/simulator/main.ts", prefixColor: "yellow" },
-  { name: "web", command: `next start -H 127.0.0.1 -p ${PORT}`, prefixColor: "green" },
+  { name: "web", command: `tsx server/main.ts -H 127.0.0.1 -p ${PORT}`, prefixColor: "green" },
 ];
 
 const { result } = concurrently(

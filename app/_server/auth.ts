@@ -4,6 +4,7 @@ import { z } from "zod";
 import type { Role } from "@/db/schema";
 import { requireSecret } from "@/ingest/secrets";
 import { endSessions } from "./session-version";
+import { claimsFromToken } from "./session-user";
 import { checkPassword, clientAddress } from "./sign-in-throttle";
 
 declare module "next-auth" {
@@ -61,10 +62,11 @@ export const { handlers, auth, signIn, signOut } = NextAuth(() => ({
       return token;
     },
     session({ session, token }) {
-      session.user.id = String(token.uid);
+      const claims = claimsFromToken(token);
+      session.user.id = claims.id;
       session.user.role = token.role as Role;
       session.user.orgId = Number(token.orgId);
-      session.user.sessionVersion = typeof token.sv === "number" ? token.sv : -1;
+      session.user.sessionVersion = claims.sessionVersion;
       return session;
     },
   },

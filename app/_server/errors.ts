@@ -1,7 +1,7 @@
 // The one error shape of Tidewell's API: { error: { code, message, fields? } }.
 import { z } from "zod";
 
-export type ErrorStatus = 400 | 401 | 403 | 404 | 409 | 413 | 415 | 422 | 429 | 500;
+export type ErrorStatus = 400 | 401 | 403 | 404 | 405 | 406 | 409 | 413 | 415 | 422 | 429 | 500;
 
 export interface ApiErrorBody {
   error: { code: string; message: string; fields?: Record<string, string> };
@@ -19,6 +19,13 @@ export class ApiError extends Error {
   body(): ApiErrorBody {
     return { error: { code: this.code, message: this.message, ...(this.fields ? { fields: this.fields } : {}) } };
   }
+}
+
+/** The status and body an API answers for a thrown error (anything not an ApiError is a 500, logged). */
+export function errorAnswer(err: unknown): { status: number; body: ApiErrorBody } {
+  if (err instanceof ApiError) return { status: err.status, body: err.body() };
+  console.error("[api] unexpected error", err);
+  return { status: 500, body: { error: { code: "internal", message: "Something went wrong on the server; nothing was changed." } } };
 }
 
 export const unauthorized = () => new ApiError(401, "unauthorized", "Sign in to continue.");

@@ -3,12 +3,10 @@
 import { z } from "zod";
 import type { Role } from "@/db/schema";
 import { MAX_JSON_BODY_BYTES, readBodyCapped } from "./body-limit";
-import { ApiError, forbidden, unauthorized, validationError, type ApiErrorBody } from "./errors";
+import { ApiError, errorAnswer, forbidden, unauthorized, validationError, type ApiErrorBody } from "./errors";
 import { currentUser, type SessionUser } from "./session";
 
-export const ALL_ROLES = ["owner", "grower", "night_manager"] as const satisfies readonly Role[];
-export const CAN_CHANGE = ["owner", "grower"] as const satisfies readonly Role[];
-export const OWNER_ONLY = ["owner"] as const satisfies readonly Role[];
+export { ALL_ROLES, CAN_CHANGE, OWNER_ONLY } from "./roles";
 
 type Schema = z.ZodType;
 type Out<S> = S extends z.ZodType ? z.output<S> : undefined;
@@ -38,10 +36,8 @@ export interface RouteContext<P, Q, B> {
 type NextContext = { params: Promise<Record<string, string | string[] | undefined>> };
 
 export function errorResponse(err: unknown): Response {
-  if (err instanceof ApiError) return Response.json(err.body(), { status: err.status });
-  console.error("[api] unexpected error", err);
-  const body: ApiErrorBody = { error: { code: "internal", message: "Something went wrong on the server; nothing was changed." } };
-  return Response.json(body, { status: 500 });
+  const { status, body } = errorAnswer(err);
+  return Response.json(body, { status });
 }
 
 async function authorise(roles: readonly Role[], action?: string): Promise<SessionUser> {

@@ -1,5 +1,6 @@
 // One broker subscription per web process, shared by every live stream: a lazily connected
-// MQTT client that fans calibrated readings and organisation events out to in-process listeners.
+// MQTT client that fans calibrated readings and organisation events out to in-process listeners
+// (one per group of streams of the same scope, server/stream/fan-out.ts, not one per stream).
 import { connect, type MqttClient } from "mqtt";
 import { orgEvent, readingBatch, type CalibratedReading, type OrgEvent } from "@/ingest/payloads";
 import { SERVICE_ACCOUNTS, mqttUrl, topics } from "@/ingest/topics";
@@ -102,10 +103,13 @@ function safeJson(payload: Buffer): unknown {
   }
 }
 
-const globalForHub = globalThis as unknown as { __tidewellLiveHub?: LiveHub };
+// Kept on globalThis: the custom server's modules and Next's bundle are separate module graphs in
+// one process (and development reloads modules), yet there must be one broker subscription.
+const HUB_KEY = Symbol.for("tidewell.liveHub");
+const globalForHub = globalThis as unknown as { [HUB_KEY]?: LiveHub };
 
-/** The process-wide hub (kept across hot reloads in development). */
+/** The process-wide hub. */
 export function liveHub(): LiveHub {
-  globalForHub.__tidewellLiveHub ??= new LiveHub();
-  return globalForHub.__tidewellLiveHub;
+  globalForHub[HUB_KEY] ??= new LiveHub();
+  return globalForHub[HUB_KEY];
 }

@@ -1,7 +1,7 @@
 // How a batch of live readings changes cached data. Each returns a new object (or the same one
 // when nothing changed), so TanStack Query re-renders only what moved.
 import type { TankOverview } from "@/db/queries/overview";
-import type { StreamReading } from "@/app/api/stream/backfill";
+import type { StreamReading } from "@/server/stream/backfill";
 import { appendReading } from "@/lib/display/downsample";
 import type { CachedSeries } from "./queries";
 

@@ -4,7 +4,7 @@
 // a fresh EventSource is opened with ?since=<last event id>, so the server backfills the gap.
 import { useEffect, useRef, useState } from "react";
 import type { OrgEvent } from "@/ingest/payloads";
-import type { StreamReading } from "@/app/api/stream/backfill";
+import type { StreamReading } from "@/server/stream/backfill";
 
 export type LiveStatus = "connecting" | "live" | "broker-down" | "reconnecting" | "signed-out";
 export type LiveEventName = "incident" | "hold" | "calibration";

@@ -1,4 +1,4 @@
-// The live section runs `next start`, which needs a production build. A fresh clone has none,
+// The live section runs the web server (server/main.ts), which needs a production build. A fresh clone has none,
 // and a build older than the sources would measure old code: build when `.next` is missing or
 // older than any source the app is built from.
 import { spawn } from "node:child_process";
@@ -7,7 +7,7 @@ import path from "node:path";
 import { REPO_ROOT } from "../../tests/integration/helpers/processes";
 
 const SOURCE_DIRS = ["app", "components", "lib", "db", "ingest", "public"];
-const SOURCE_FILES = ["next.config.ts", "package-lock.json", "postcss.config.mjs", "tailwind.config.ts", "tsconfig.json"];
+const SOURCE_FILES = ["next.config.ts", "server/security-headers.ts", "package-lock.json", "postcss.config.mjs", "tailwind.config.ts", "tsconfig.json"];
 
 function newestMtime(entry: string): number {
   let stat: fs.Stats;

@@ -1,11 +1,13 @@
 // Bench section "live": the night manager's screen under load, through the real processes
-// (embedded broker, ingest, `next start` of the built app, built first when needed) on a
-// seeded database of its own.
+// (embedded broker, ingest, the web server of `npm start` — server/main.ts in front of Next — on
+// the built app, built first when needed) on a seeded database of its own.
 //   series_30d_ms             p95 of GET /api/tanks/[id]/series over 30 days of 1 Hz data of one probe, 2,000 points asked
 //   series_365d_ms            the same over a year (older than 30 days: rollups only, as retention leaves it)
 //   sse_clients_held          concurrent SSE clients (1,000) still receiving after being held for 60 s
 //   sse_rss_growth_mb         growth of the web process's resident memory from before opening them to the end
 //   sse_rss_growth_during_hold_mb  the same from when all were open and served to the end (a leak would show here)
+//   sse_heap_growth_after_gc_mb  growth of the web's live heap (used after a full collection) over the same span as
+//                             sse_rss_growth_mb: what the open streams keep, whenever V8 last collected
 //   publish_to_stream_p95_ms  device publish → the reading arriving at one of those clients, at 1,000 readings/s, during the hold
 import fs from "node:fs";
 import path from "node:path";
@@ -209,11 +211,25 @@ export async function* benchLive(opts: SectionOptions): AsyncIterable<Metric> {
     const port = await freePort();
     // TW_NODE_ARGS (e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof") reaches the web process too.
     const nodeArgs = (process.env.TW_NODE_ARGS ?? "").split(" ").filter(Boolean);
-    const web = spawnProcess("web", process.execPath, [...nodeArgs, path.join(REPO_ROOT, "node_modules/next/dist/bin/next"), "start", "-H", "127.0.0.1", "-p", String(port)], {
-      env: { DATABASE_URL: db.url, MQTT_URL: broker.url, BROKER_PORT: String(broker.port), NEXT_TELEMETRY_DISABLED: "1" },
+    // --expose-gc with TW_BENCH_HEAP=1: on SIGUSR2 the web collects fully and prints its heap (server/main.ts).
+    const web = spawnProcess("web", process.execPath, [...nodeArgs, "--expose-gc", "--import", "tsx", path.join(REPO_ROOT, "server/main.ts"), "-H", "127.0.0.1", "-p", String(port)], {
+      env: { DATABASE_URL: db.url, MQTT_URL: broker.url, BROKER_PORT: String(broker.port), NEXT_TELEMETRY_DISABLED: "1", TW_BENCH_HEAP: "1" },
     });
     webOutput = () => web.output();
-    await web.waitForLine(/Ready in/, 60_000);
+    await web.waitForLine(/Ready on/, 60_000);
+    /** The web's heap used after a full collection, in MB. */
+    const heapAfterGcMb = async () => {
+      const pattern = /^heap-after-gc (\d+)$/;
+      const seen = web.lines.filter((l) => pattern.test(l)).length;
+      web.kill("SIGUSR2");
+      const started = Date.now();
+      for (;;) {
+        const found = web.lines.filter((l) => pattern.test(l));
+        if (found.length > seen) return Number(pattern.exec(found[found.length - 1])![1]) / 1024 / 1024;
+        if (Date.now() - started > 30_000) throw new Error("the web did not report its heap after a collection");
+        await sleep(50);
+      }
+    };
     const baseURL = `http://127.0.0.1:${port}`;
     const session = await sessionFor(baseURL, "night_manager");
 
@@ -229,6 +245,7 @@ export async function* benchLive(opts: SectionOptions): AsyncIterable<Metric> {
     // Hold many clients (in a process of their own) while devices publish 1,000 readings/s;
     // one more client, here, times every reading.
     const rssBefore = treeRssMb(web.pid);
+    const heapBefore = await heapAfterGcMb();
     log(`opening ${clientCount} SSE clients (web RSS ${rssBefore.toFixed(0)} MB)`);
     let measuring = false;
     const latencies: number[] = [];
@@ -255,15 +272,20 @@ export async function* benchLive(opts: SectionOptions): AsyncIterable<Metric> {
     }
     measuring = false;
     const rssAfter = treeRssMb(web.pid);
+    const heapAfter = await heapAfterGcMb(); // after the hold's figures: the collection pauses the web
     holders.kill("SIGTERM");
     const alive = Number((await holders.waitForLine(/^alive (\d+)$/, 30_000))[1]) + (watcher.open && watcher.lastHeardAt >= Date.now() - heardWithinMs ? 1 : 0);
     await load.stop();
-    log(`held ${alive}/${clientCount} clients for ${sseHoldSeconds} s; web RSS ${rssAfter.toFixed(0)} MB (peak ${rssPeak.toFixed(0)}); ${latencies.length} readings timed`);
+    log(
+      `held ${alive}/${clientCount} clients for ${sseHoldSeconds} s; web RSS ${rssAfter.toFixed(0)} MB (peak ${rssPeak.toFixed(0)}); ` +
+        `heap after a full collection ${heapBefore.toFixed(1)} → ${heapAfter.toFixed(1)} MB; ${latencies.length} readings timed`,
+    );
     void seconds; // the hold, not the per-section window, sets this section's length
     yield { metric: "sse_clients_held", value: alive, unit: "clients" };
     yield { metric: "sse_rss_growth_mb", value: Math.round((rssAfter - rssBefore) * 10) / 10, unit: "MB" };
     // Growth over the hold itself, once every client was open: what a leak would show.
     yield { metric: "sse_rss_growth_during_hold_mb", value: Math.round((rssAfter - rssHolding) * 10) / 10, unit: "MB" };
+    yield { metric: "sse_heap_growth_after_gc_mb", value: Math.round((heapAfter - heapBefore) * 10) / 10, unit: "MB" };
     yield { metric: "publish_to_stream_p95_ms", value: Math.round(p95(latencies)), unit: "ms" };
   } catch (err) {
     log(`failed; the web's last output:\n${webOutput().split("\n").slice(-30).join("\n")}`);
@@ -278,6 +300,6 @@ export async function* benchLive(opts: SectionOptions): AsyncIterable<Metric> {
 
 export const liveSection: BenchSection = {
   name: "live",
-  metrics: { series_30d_ms: "ms", series_365d_ms: "ms", sse_clients_held: "clients", sse_rss_growth_mb: "MB", sse_rss_growth_during_hold_mb: "MB", publish_to_stream_p95_ms: "ms" },
+  metrics: { series_30d_ms: "ms", series_365d_ms: "ms", sse_clients_held: "clients", sse_rss_growth_mb: "MB", sse_rss_growth_during_hold_mb: "MB", sse_heap_growth_after_gc_mb: "MB", publish_to_stream_p95_ms: "ms" },
   run: benchLive,
 };

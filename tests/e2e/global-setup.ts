@@ -115,8 +115,8 @@ export default async function setup(project: TestProject) {
     procs.push(ingest);
     await waitFor("the ingest", async () => fs.readFileSync(ingest.log, "utf8").includes("subscribed"), 30_000);
 
-    const next = path.join(ROOT, "node_modules/.bin/next");
-    procs.push(startProcess("web", next, ["start", "-H", "127.0.0.1", "-p", String(port)], env, workDir));
+    // The web as `npm start` runs it: the custom server (server/main.ts) in front of Next.
+    procs.push(startProcess("web", tsx, ["server/main.ts", "-H", "127.0.0.1", "-p", String(port)], env, workDir));
     const baseURL = `http://127.0.0.1:${port}`;
     await waitForHttp(`${baseURL}/sign-in`, 90_000);
     procs.push(startProcess("simulator", tsx, ["scripts/simulator/main.ts"], env, workDir));

@@ -1,6 +1,7 @@
 /// <reference types="vite/client" />
-// Every route handler under app/api, called as anonymous, each role and a user of another
-// organisation. Routes are found on disk, so a new route that is not listed here (or not guarded) fails.
+// Every route handler under app/api, and every address the custom server answers itself
+// (server/routes.ts), called as anonymous, each role and a user of another organisation. Routes
+// are found on disk, so a new route that is not listed here (or not guarded) fails.
 import fs from "node:fs";
 import path from "node:path";
 import { beforeAll, describe, expect, inject, it } from "vitest";
@@ -10,6 +11,7 @@ import { ROOT } from "./stack";
 import { HttpSession, sessionFor } from "./session";
 import { OTHER_ORG_USER } from "./fixtures";
 import type { AccessTable } from "./access/roles";
+import { CUSTOM_SERVER_ROUTES } from "@/server/routes";
 
 // Each area of the product lists its routes in tests/e2e/access/<area>.ts.
 const ALL: Role[] = ["owner", "grower", "night_manager"];
@@ -49,7 +51,10 @@ function findRoutes(dir = path.join(ROOT, "app/api")): { template: string; metho
   return out;
 }
 
-const routes = findRoutes().flatMap((r) => r.methods.map((method) => ({ method, template: r.template, key: `${method} ${r.template}` })));
+const routes = [
+  ...findRoutes().flatMap((r) => r.methods.map((method) => ({ method, template: r.template, key: `${method} ${r.template}` }))),
+  ...CUSTOM_SERVER_ROUTES.map((r) => ({ method: r.method as string, template: r.template as string, key: `${r.method} ${r.template}` })),
+];
 
 describe("role matrix", () => {
   const baseURL = inject("baseURL");

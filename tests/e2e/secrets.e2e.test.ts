@@ -37,7 +37,7 @@ describe("secrets", () => {
     const env: NodeJS.ProcessEnv = { ...process.env, AUTH_SECRET: "", NEXT_TELEMETRY_DISABLED: "1" };
     const logFile = path.join(fs.mkdtempSync(path.join(os.tmpdir(), "tidewell-nosecret-")), "web.log");
     const out = fs.openSync(logFile, "a");
-    const child = spawn(path.join(ROOT, "node_modules/.bin/next"), ["start", "-H", "127.0.0.1", "-p", String(port)], { cwd: ROOT, env, stdio: ["ignore", out, out] });
+    const child = spawn(path.join(ROOT, "node_modules/.bin/tsx"), ["server/main.ts", "-H", "127.0.0.1", "-p", String(port)], { cwd: ROOT, env, stdio: ["ignore", out, out] });
     const code = await new Promise<number | null>((resolve) => {
       const timer = setTimeout(() => {
         child.kill("SIGKILL");
