@@ -22,14 +22,25 @@ const SERVICE_RULES = {
   },
 } as const satisfies Record<string, { publish: readonly string[]; subscribe: readonly string[] }>;
 
-function rules(p: Principal): { publish: readonly string[]; subscribe: readonly string[] } {
+type Rules = { publish: readonly string[]; subscribe: readonly string[] };
+
+/** A device's rules, worked out once per connection: its every publish is checked against them. */
+const deviceRules = new WeakMap<Principal, Rules>();
+
+function rules(p: Principal): Rules {
   if (p.kind === "service") return SERVICE_RULES[p.account];
-  return { publish: [topics.raw(p.controllerId)], subscribe: [topics.commandWildcard(p.controllerId)] };
+  let r = deviceRules.get(p);
+  if (!r) {
+    r = { publish: [topics.raw(p.controllerId)], subscribe: [topics.commandWildcard(p.controllerId)] };
+    deviceRules.set(p, r);
+  }
+  return r;
 }
 
 export function canPublish(p: Principal, topic: string): boolean {
   if (topic.startsWith("$")) return false; // $SYS and friends are the broker's own
-  return rules(p).publish.some((allowed) => topicMatches(allowed, topic));
+  for (const allowed of rules(p).publish) if (allowed === topic || topicMatches(allowed, topic)) return true;
+  return false;
 }
 
 export function canSubscribe(p: Principal, filter: string): boolean {

@@ -131,11 +131,19 @@ export class OutgoingStore {
  */
 export function withOutgoingStore<T extends object>(persistence: T, store: OutgoingStore): T {
   const overrides = store.methods as Record<string, unknown>;
+  // aedes looks its persistence's methods up for every message: each is bound once, not per call.
+  const bound = new Map<PropertyKey, { fn: (...args: unknown[]) => unknown; bound: unknown }>();
   return new Proxy(persistence, {
     get(target, prop, receiver) {
       if (typeof prop === "string" && Object.hasOwn(overrides, prop)) return overrides[prop];
       const value: unknown = Reflect.get(target, prop, receiver);
-      return typeof value === "function" ? value.bind(target) : value;
+      if (typeof value !== "function") return value;
+      let hit = bound.get(prop);
+      if (hit?.fn !== value) {
+        hit = { fn: value as (...args: unknown[]) => unknown, bound: value.bind(target) };
+        bound.set(prop, hit);
+      }
+      return hit.bound;
     },
   });
 }

@@ -68,6 +68,8 @@ function publishPacket(topic: Buffer, packetId: number, payload: string): Buffer
 class ControllerConnection {
   private socket: net.Socket | null = null;
   private readonly topic: Buffer;
+  /** Each sample's JSON up to its timestamp, written once: `{"serial":"…","ts":` (with a comma after the first). */
+  private readonly sampleHeads: string[];
   private seq = 0;
   private ts: number;
   private nextId = 1;
@@ -85,6 +87,7 @@ class ControllerConnection {
     private readonly window: number,
   ) {
     this.topic = Buffer.from(topics.raw(t.controllerId));
+    this.sampleHeads = t.serials.map((serial, i) => `${i ? "," : ""}{"serial":${JSON.stringify(serial)},"ts":`);
     this.ts = startTs;
     this.credit = window;
   }
@@ -137,9 +140,9 @@ class ControllerConnection {
     for (let k = 0; k < n; k++) {
       const ts = ++this.ts;
       let samples = "";
-      for (let i = 0; i < this.t.serials.length; i++) {
+      for (let i = 0; i < this.sampleHeads.length; i++) {
         const signal = i === 2 ? 20.5 : 40 + (ts % 7);
-        samples += `${i ? "," : ""}{"serial":${JSON.stringify(this.t.serials[i])},"ts":${ts},"signal":${signal}}`;
+        samples += `${this.sampleHeads[i]}${ts},"signal":${signal}}`;
       }
       packets.push(publishPacket(this.topic, this.nextId, `{"v":1,"seq":${this.seq++},"samples":[${samples}]}`));
       this.nextId = this.nextId === 65535 ? 1 : this.nextId + 1;
