@@ -37,25 +37,49 @@ function copyForQueue(p: QueuedPacket): QueuedPacket {
   return q;
 }
 
+/**
+ * Queue positions by broker id, then broker counter: numbers as keys, and no key string built
+ * for every packet (the same broker id is one string, its hash computed once).
+ */
+class BrokerIndex {
+  private readonly byBroker = new Map<string | undefined, Map<number | undefined, number>>();
+
+  get(p: QueuedPacket): number | undefined {
+    return this.byBroker.get(p.brokerId)?.get(p.brokerCounter);
+  }
+
+  set(p: QueuedPacket, id: number) {
+    let counters = this.byBroker.get(p.brokerId);
+    if (!counters) {
+      counters = new Map();
+      this.byBroker.set(p.brokerId, counters);
+    }
+    counters.set(p.brokerCounter, id);
+  }
+
+  delete(p: QueuedPacket) {
+    const counters = this.byBroker.get(p.brokerId);
+    if (!counters) return;
+    counters.delete(p.brokerCounter);
+    if (counters.size === 0) this.byBroker.delete(p.brokerId);
+  }
+}
+
 class ClientQueue {
   private next = 0;
   readonly entries = new Map<number, QueuedPacket>(); // in enqueue order
-  private readonly byBroker = new Map<string, number>();
+  private readonly byBroker = new BrokerIndex();
   private readonly byMessageId = new Map<number, number>();
-
-  private static brokerKey(p: QueuedPacket) {
-    return `${p.brokerId}\u0000${p.brokerCounter}`;
-  }
 
   push(p: QueuedPacket) {
     const id = this.next++;
     this.entries.set(id, p);
-    this.byBroker.set(ClientQueue.brokerKey(p), id);
+    this.byBroker.set(p, id);
   }
 
   /** aedes-persistence's outgoingUpdate: match by broker id and counter, else by message id. */
   update(p: QueuedPacket) {
-    const id = this.byBroker.get(ClientQueue.brokerKey(p));
+    const id = this.byBroker.get(p);
     if (id !== undefined) {
       const entry = this.entries.get(id)!;
       if (entry.messageId !== undefined) this.byMessageId.delete(entry.messageId);
@@ -67,9 +91,9 @@ class ClientQueue {
     if (byId !== undefined) {
       // A packet replacing another under the same message id (QoS 2 PUBREL for its PUBLISH).
       const old = this.entries.get(byId)!;
-      this.byBroker.delete(ClientQueue.brokerKey(old));
+      this.byBroker.delete(old);
       this.entries.set(byId, p);
-      this.byBroker.set(ClientQueue.brokerKey(p), byId);
+      this.byBroker.set(p, byId);
       return;
     }
     throw new Error("no such packet");
@@ -81,7 +105,7 @@ class ClientQueue {
     if (id === undefined) return undefined;
     const entry = this.entries.get(id)!;
     this.byMessageId.delete(messageId);
-    this.byBroker.delete(ClientQueue.brokerKey(entry));
+    this.byBroker.delete(entry);
     this.entries.delete(id);
     return entry;
   }
