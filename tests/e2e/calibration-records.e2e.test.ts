@@ -4,10 +4,11 @@
 // right, and a spot check corrected and deleted.
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser } from "playwright-core";
-import { createClient, type Client } from "@libsql/client";
+import type { Client } from "@libsql/client";
 import { launch, shot, signInAs } from "./browser";
 import { HttpSession, sessionFor } from "./session";
 import { OTHER_ORG_USER } from "./fixtures";
+import { openStackDb } from "./database";
 
 const PNG = Buffer.from("89504e470d0a1a0a0000000d4948445200000001000000010806000000", "hex");
 
@@ -19,7 +20,7 @@ describe("calibration records entered by hand", () => {
 
   beforeAll(async () => {
     browser = await launch();
-    db = createClient({ url: inject("databaseUrl") });
+    db = openStackDb();
     const r = await db.execute("SELECT p.id, p.serial FROM probes p JOIN tanks t ON t.id = p.tank_id WHERE t.name = 'L2 Oakleaf' AND p.kind = 'ph'");
     probe = { id: Number(r.rows[0].id), serial: String(r.rows[0].serial) };
   });

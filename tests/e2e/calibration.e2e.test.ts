@@ -5,10 +5,11 @@
 // the ingest corrects new readings with the new calibration.
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { createClient, type Client } from "@libsql/client";
+import type { Client } from "@libsql/client";
 import { phFromMv } from "@/lib/calibration";
 import { launch, shot, signInAs } from "./browser";
 import { sessionFor } from "./session";
+import { openStackDb } from "./database";
 
 const STABLE_WAIT_MS = 180_000;
 
@@ -20,7 +21,7 @@ describe("guided calibration", () => {
 
   beforeAll(async () => {
     browser = await launch();
-    db = createClient({ url: inject("databaseUrl") });
+    db = openStackDb();
     const t = await db.execute("SELECT id FROM tanks WHERE name = 'L1 Butterhead'");
     const id = Number(t.rows[0].id);
     const probes = await db.execute({ sql: "SELECT id, kind FROM probes WHERE tank_id = ?", args: [id] });

@@ -6,7 +6,7 @@ import fs from "node:fs";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, BrowserContext, Page } from "playwright-core";
-import { createClient, type Client } from "@libsql/client";
+import type { Client } from "@libsql/client";
 import jsQR from "jsqr";
 import { PNG } from "pngjs";
 import { DEMO_PASSWORD } from "@/db/seed/scenario";
@@ -14,6 +14,7 @@ import { RUN_STATUS_WORD, reportDateTime, runResultText } from "@/lib/reports/fo
 import { SCREENSHOTS, launch, shot, signInAs } from "./browser";
 import { demoEmail, sessionFor, type HttpSession } from "./session";
 import { ROOT } from "./stack";
+import { openStackDb } from "./database";
 
 const OUT = path.join(ROOT, "test-results", "greenhouse");
 const PHONE = { viewport: { width: 390, height: 844 }, deviceScaleFactor: 2, isMobile: true, hasTouch: true };
@@ -66,7 +67,7 @@ describe("in the greenhouse", () => {
   beforeAll(async () => {
     fs.mkdirSync(OUT, { recursive: true });
     browser = await launch();
-    db = createClient({ url: inject("databaseUrl") });
+    db = openStackDb();
     grower = await sessionFor(baseURL, "grower");
   });
   afterAll(async () => {

@@ -5,12 +5,13 @@
 // once, and everything it opened (faults, browser contexts, clients) is undone after the file.
 import { afterAll, beforeAll, inject } from "vitest";
 import mqtt, { type MqttClient } from "mqtt";
-import { createClient, type Client } from "@libsql/client";
+import type { Client } from "@libsql/client";
 import type { Browser, BrowserContext, BrowserContextOptions, Page } from "playwright-core";
 import { SERVICE_ACCOUNTS, topics } from "@/ingest/topics";
 import type { SimFault } from "@/ingest/payloads";
 import type { Role } from "@/db/schema";
 import { launch, signInAs } from "./browser";
+import { openStackDb } from "./database";
 
 export interface Harness {
   db: Client;
@@ -31,7 +32,7 @@ export const QUICK_SETTLE_MS = 8000;
 
 async function startHarness(): Promise<Harness> {
   // The ingest writes every second: wait for its locks rather than fail.
-  const db = createClient({ url: inject("databaseUrl"), timeout: 10_000 });
+  const db = openStackDb();
   const client = await mqtt.connectAsync(inject("mqttUrl"), {
     clientId: `tidewell-web-e2e-${process.pid}-${Math.random().toString(36).slice(2, 6)}`,
     username: SERVICE_ACCOUNTS.web.username,

@@ -4,12 +4,13 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { connect, type MqttClient } from "mqtt";
-import { createClient, type Client } from "@libsql/client";
+import type { Client } from "@libsql/client";
 import { SERVICE_ACCOUNTS, topics } from "@/ingest/topics";
 import { STATE_RANK, type TankStateKind } from "@/lib/display/tank-state";
 import { launch, shot, signInAs } from "./browser";
 import { HttpSession, sessionFor } from "./session";
 import { OTHER_ORG_USER } from "./fixtures";
+import { openStackDb } from "./database";
 
 interface SseMessage {
   id: string | null;
@@ -73,7 +74,7 @@ describe("live monitoring", () => {
 
   beforeAll(async () => {
     browser = await launch();
-    db = createClient({ url: inject("databaseUrl") });
+    db = openStackDb();
     const row = (
       await db.execute(
         "SELECT t.id, t.controller_id, p.id AS probe FROM tanks t JOIN probes p ON p.tank_id = t.id AND p.kind = 'ph' AND p.status = 'active' WHERE t.name = 'G1 Genovese basil'",

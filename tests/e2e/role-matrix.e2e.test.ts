@@ -5,13 +5,13 @@
 import fs from "node:fs";
 import path from "node:path";
 import { beforeAll, describe, expect, inject, it } from "vitest";
-import { createClient } from "@libsql/client";
 import type { Role } from "@/db/schema";
 import { ROOT } from "./stack";
 import { HttpSession, sessionFor } from "./session";
 import { OTHER_ORG_USER } from "./fixtures";
 import type { AccessTable } from "./access/roles";
 import { CUSTOM_SERVER_ROUTES } from "@/server/routes";
+import { openStackDb } from "./database";
 
 // Each area of the product lists its routes in tests/e2e/access/<area>.ts.
 const ALL: Role[] = ["owner", "grower", "night_manager"];
@@ -65,7 +65,7 @@ describe("role matrix", () => {
     for (const role of ALL) sessions.set(role, await sessionFor(baseURL, role));
     sessions.set("other-org", await new HttpSession(baseURL).signIn(OTHER_ORG_USER.email, OTHER_ORG_USER.password));
     sessions.set("anonymous", new HttpSession(baseURL));
-    const db = createClient({ url: inject("databaseUrl") });
+    const db = openStackDb();
     const org = await db.execute("SELECT id FROM organisations ORDER BY id LIMIT 1");
     const orgId = Number(org.rows[0].id);
     for (const [segment, table] of Object.entries(SAMPLE_TABLE)) {

@@ -6,13 +6,13 @@ import path from "node:path";
 import { spawn } from "node:child_process";
 import { describe, expect, inject, it } from "vitest";
 import { encode } from "next-auth/jwt";
-import { createClient } from "@libsql/client";
 import { ROOT, freePort } from "./stack";
+import { openStackDb } from "./database";
 
 const FORMER_BUILT_IN_SECRET = "tidewell-demo-secret-change-me-in-production-000";
 
 async function ownerToken(secret: string) {
-  const db = createClient({ url: inject("databaseUrl") });
+  const db = openStackDb();
   const owner = await db.execute("SELECT id, org_id, email, session_version FROM users WHERE role = 'owner' ORDER BY id LIMIT 1");
   db.close();
   const row = owner.rows[0];

@@ -3,11 +3,12 @@
 // cannot be framed, and one organisation learns nothing of another through health, the demo
 // mailbox or an invitation. A finished calibration run cannot move the simulated probe.
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { createClient, type Client } from "@libsql/client";
+import type { Client } from "@libsql/client";
 import type { Browser } from "playwright-core";
 import { launch, signInAs } from "./browser";
 import { OTHER_ORG_USER } from "./fixtures";
 import { demoEmail, HttpSession, sessionFor } from "./session";
+import { openStackDb } from "./database";
 
 const RUN = Date.now().toString(36);
 
@@ -28,7 +29,7 @@ describe("security", () => {
   const baseURL = inject("baseURL");
   let db: Client;
   beforeAll(() => {
-    db = createClient({ url: inject("databaseUrl") });
+    db = openStackDb();
   });
   afterAll(() => db.close());
 

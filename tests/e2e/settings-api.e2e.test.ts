@@ -2,13 +2,14 @@
 // messages, an owner and a grower set up a new site with a tank, probes and a controller, the
 // controller streams into the new tank, and revoking its credentials cuts it off the broker.
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { createClient, type Client } from "@libsql/client";
+import type { Client } from "@libsql/client";
 import { connectAsync, type MqttClient } from "mqtt";
 import { topics } from "@/ingest/topics";
 import { HttpSession, sessionFor } from "./session";
 import { OTHER_ORG_USER } from "./fixtures";
 import { waitFor } from "./stack";
 import { removeSite } from "./settings-teardown";
+import { openStackDb } from "./database";
 
 type Body = Record<string, unknown>;
 interface ApiError {
@@ -70,7 +71,7 @@ describe("settings API", () => {
 
   beforeAll(async () => {
     [owner, grower, night] = await Promise.all([sessionFor(baseURL, "owner"), sessionFor(baseURL, "grower"), sessionFor(baseURL, "night_manager")]);
-    db = createClient({ url: inject("databaseUrl") });
+    db = openStackDb();
   });
   afterAll(async () => {
     if (made.siteId) await removeSite(db, made.siteId);

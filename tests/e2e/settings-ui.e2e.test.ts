@@ -3,11 +3,12 @@
 // registers a controller whose simulated device then streams into the new tank.
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, Locator, Page } from "playwright-core";
-import { createClient, type Client } from "@libsql/client";
+import type { Client } from "@libsql/client";
 import { Device } from "@/scripts/simulator/device";
 import { launch, shot, signInAs } from "./browser";
 import { waitFor } from "./stack";
 import { removeSite } from "./settings-teardown";
+import { openStackDb } from "./database";
 
 const RUN = Date.now().toString(36);
 
@@ -42,7 +43,7 @@ describe("settings in the browser", () => {
 
   beforeAll(async () => {
     browser = await launch();
-    db = createClient({ url: inject("databaseUrl") });
+    db = openStackDb();
   });
   afterAll(async () => {
     await browser?.close();
