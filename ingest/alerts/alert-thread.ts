@@ -5,7 +5,8 @@
 import { parentPort, workerData } from "node:worker_threads";
 import { getDb } from "../../db/client";
 import { createInPlaceHooks } from "../hooks";
-import { unpackReadings, type FromAlertThread, type ToAlertThread } from "./thread-protocol";
+import { unpackReadings } from "../packed-readings";
+import type { FromAlertThread, ToAlertThread } from "./thread-protocol";
 
 const port = parentPort;
 if (!port) throw new Error("alert-thread.ts runs as a worker thread of the ingest");

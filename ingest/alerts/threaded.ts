@@ -7,7 +7,8 @@
 import type { Worker } from "node:worker_threads";
 import type { CommittedReading, HookContext, IngestHooks } from "../hooks";
 import { startThread } from "../thread";
-import { packReadings, type FromAlertThread, type ToAlertThread } from "./thread-protocol";
+import { packReadings } from "../packed-readings";
+import type { FromAlertThread, ToAlertThread } from "./thread-protocol";
 
 export function startThreadedHooks(ctx: HookContext): IngestHooks {
   let worker: Worker | null = null;

@@ -6,7 +6,8 @@ import type { Worker } from "node:worker_threads";
 import { startThread } from "../thread";
 import type { PendingRow, ReadingWriter, WriterOptions } from "./batch-writer";
 import type { DeadLetter } from "./refusals";
-import { packRows, type WriteReply, type WriteRequest } from "./writer-protocol";
+import { packReadings } from "../packed-readings";
+import type { WriteReply, WriteRequest } from "./writer-protocol";
 
 interface InFlight {
   rows: PendingRow[];
@@ -48,7 +49,7 @@ export class ThreadedWriter implements ReadingWriter {
 
   write(rows: PendingRow[], deadLetters: DeadLetter[], seen: Map<string, number>): Promise<PendingRow[]> {
     const id = this.nextId++;
-    const request: WriteRequest = { id, rows: packRows(rows), deadLetters, seen: [...seen] };
+    const request: WriteRequest = { id, rows: packReadings(rows), deadLetters, seen: [...seen] };
     return new Promise((resolve, reject) => {
       this.inFlight.set(id, { rows, resolve, reject });
       this.thread().postMessage(request, [request.rows.buffer as ArrayBuffer]);

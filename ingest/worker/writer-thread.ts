@@ -4,7 +4,8 @@
 // One transaction per request, as before; the main thread acknowledges after the reply.
 import { parentPort, workerData } from "node:worker_threads";
 import { NativeWriter, type WriterOptions } from "./batch-writer";
-import { unpackRows, type WriteReply, type WriteRequest } from "./writer-protocol";
+import { unpackReadings } from "../packed-readings";
+import type { WriteReply, WriteRequest } from "./writer-protocol";
 
 const port = parentPort;
 if (!port) throw new Error("writer-thread.ts runs as a worker thread of the ingest");
@@ -18,12 +19,13 @@ port.on("message", (m: WriteRequest | "close") => {
   }
   let reply: WriteReply;
   try {
-    const rows = unpackRows(m.rows);
+    const rows = unpackReadings(m.rows);
     const inserted = writer.write(rows, m.deadLetters, new Map(m.seen));
     let flags: Uint8Array | null = null;
     if (inserted.length !== rows.length) {
-      flags = new Uint8Array(rows.length);
-      for (const r of inserted) flags[r.index] = 1;
+      // Only after a redelivery: which rows were new, by their place in the batch.
+      const isNew = new Set(inserted);
+      flags = Uint8Array.from(rows, (r) => (isNew.has(r) ? 1 : 0));
     }
     reply = { id: m.id, ok: true, inserted: flags };
   } catch (err) {

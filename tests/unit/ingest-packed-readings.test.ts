@@ -1,9 +1,8 @@
-// Rows and committed readings cross to the ingest's writer and alert threads packed into one
-// Float64Array; they must come back exactly as they went, nulls included.
+// Readings cross to the ingest's writer and alert threads packed into one Float64Array; they
+// must come back exactly as they went, nulls included.
 import { describe, expect, it } from "vitest";
 import type { CommittedReading } from "../../ingest/hooks";
-import { packReadings, unpackReadings } from "../../ingest/alerts/thread-protocol";
-import { packRows, unpackRows } from "../../ingest/worker/writer-protocol";
+import { packReadings, unpackReadings } from "../../ingest/packed-readings";
 
 const readings: CommittedReading[] = [
   { v: 1, orgId: 1, tankId: 2, probeId: 3, kind: "ph", ts: 1_764_000_000_001, raw: -57.25, value: 6.01, quality: "ok", calibrationRunId: 12 },
@@ -13,18 +12,12 @@ const readings: CommittedReading[] = [
   { v: 1, orgId: 9, tankId: 7, probeId: 6, kind: "ph", ts: 1_764_000_000_005, raw: 1e-9, value: 14, quality: "lapsed", calibrationRunId: 2 },
 ];
 
-describe("thread protocols", () => {
-  it("committed readings come back from the alert thread's packing unchanged", () => {
+describe("packed readings", () => {
+  it("come back unchanged, in order", () => {
     expect(unpackReadings(packReadings(readings))).toEqual(readings);
-  });
-
-  it("stored rows come back from the writer thread's packing unchanged, with their place in the batch", () => {
-    const rows = readings.map(({ probeId, ts, raw, value, quality, calibrationRunId }) => ({ probeId, ts, raw, value, quality, calibrationRunId }));
-    expect(unpackRows(packRows(rows))).toEqual(rows.map((r, index) => ({ ...r, index })));
   });
 
   it("an empty batch packs to nothing", () => {
     expect(unpackReadings(packReadings([]))).toEqual([]);
-    expect(unpackRows(packRows([]))).toEqual([]);
   });
 });
