@@ -4,7 +4,14 @@ import mqtt, { type MqttClient } from "mqtt";
 import { simControl, type SimControl } from "../../ingest/payloads";
 import { controllerOfSimControlTopic, SERVICE_ACCOUNTS, topics } from "../../ingest/topics";
 
-export function listenForControl(url: string, onControl: (controllerId: string, msg: SimControl) => void, log: (line: string) => void): MqttClient {
+/** `subscribed` resolves once the broker has confirmed the control subscription. */
+export function listenForControl(
+  url: string,
+  onControl: (controllerId: string, msg: SimControl) => void,
+  log: (line: string) => void,
+): { client: MqttClient; subscribed: Promise<void> } {
+  let markSubscribed: () => void = () => undefined;
+  const subscribed = new Promise<void>((resolve) => (markSubscribed = resolve));
   const client = mqtt.connect(url, {
     username: SERVICE_ACCOUNTS.simulator.username,
     password: SERVICE_ACCOUNTS.simulator.password(),
@@ -12,7 +19,12 @@ export function listenForControl(url: string, onControl: (controllerId: string, 
     clean: true,
     reconnectPeriod: 500,
   });
-  client.on("connect", () => client.subscribe(topics.simControlWildcard, { qos: 1 }));
+  client.on("connect", () =>
+    client.subscribe(topics.simControlWildcard, { qos: 1 }, (err) => {
+      if (err) log(`control subscription refused: ${err.message}`);
+      else markSubscribed();
+    }),
+  );
   client.on("message", (topic, payload) => {
     const controllerId = controllerOfSimControlTopic(topic);
     if (!controllerId) return;
@@ -27,5 +39,5 @@ export function listenForControl(url: string, onControl: (controllerId: string, 
     onControl(controllerId, parsed.data);
   });
   client.on("error", (err) => log(`control channel: ${err.message}`));
-  return client;
+  return { client, subscribed };
 }

@@ -18,6 +18,9 @@ export class Device {
   private seq = 0;
   private dosing: DosingCommand | null = null;
   private offline = false;
+  private markSubscribed: () => void = () => undefined;
+  /** Resolves once the broker has confirmed the subscription to this controller's commands. */
+  readonly subscribed = new Promise<void>((resolve) => (this.markSubscribed = resolve));
 
   constructor(
     readonly credential: DeviceCredential,
@@ -41,6 +44,7 @@ export class Device {
     client.on("connect", () => {
       client.subscribe(topics.commandWildcard(c.controllerId), { qos: 1 }, (err) => {
         if (err) this.log(`${c.controllerId}: command subscription refused: ${err.message}`);
+        else this.markSubscribed();
       });
     });
     client.on("message", (topic, payload) => {

@@ -79,6 +79,10 @@ for (const f of args.fault as FaultSpec[]) {
   applyControl(target.controllerId, { v: 1, fault: f.cause, measure: f.measure }, start);
 }
 const control = listenForControl(url, (id, msg) => applyControl(id, msg, Date.now()), log);
+// Scripts and tests wait for this line before they send control messages or place holds.
+void Promise.all([control.subscribed, ...[...devices.values()].map((d) => d.subscribed)]).then(() =>
+  log("ready: listening for control messages and dosing commands"),
+);
 
 log(`${virtualCount} tanks (${tanks.length} seeded${copiesPerTank > 1 ? `, ${copiesPerTank} copies each` : ""}) at ${args.rate} Hz via ${url}`);
 
@@ -126,7 +130,7 @@ async function finish() {
     `simulator done ${JSON.stringify({ messages: counters.messages, samples: counters.samples, failed: counters.failed, unacknowledged: counters.pending })}`,
   );
   await Promise.all([...devices.values()].map((d) => d.close()));
-  control.end(true);
+  control.client.end(true);
   process.exit(counters.pending > 0 || counters.failed > 0 ? 1 : 0);
 }
 

@@ -119,6 +119,9 @@ export default async function setup(project: TestProject) {
     procs.push(startProcess("web", tsx, ["server/main.ts", "-H", "127.0.0.1", "-p", String(port)], env, workDir));
     const baseURL = `http://127.0.0.1:${port}`;
     await waitForHttp(`${baseURL}/sign-in`, 90_000);
-    procs.push(startProcess("simulator", tsx, ["scripts/simulator/main.ts"], env, workDir));
+    const simulator = startProcess("simulator", tsx, ["scripts/simulator/main.ts"], env, workDir);
+    procs.push(simulator);
+    // Tests send faults and place holds at once: the simulator must be listening by then.
+    await waitFor("the simulator", async () => fs.readFileSync(simulator.log, "utf8").includes("ready: listening"), 30_000);
   }
 }
