@@ -2,63 +2,33 @@
 // contract as writing in place. A write resolves after its transaction committed on the thread,
 // so the pipeline still acknowledges only committed messages. If the thread dies, the writes in
 // flight fail (the pipeline keeps their batch and retries) and the next write starts a new thread.
-import type { Worker } from "node:worker_threads";
-import { startThread } from "../thread";
+import { ThreadCalls } from "../thread";
 import type { PendingRow, ReadingWriter, WriterOptions } from "./batch-writer";
 import type { DeadLetter } from "./refusals";
 import { packReadings } from "../packed-readings";
 import type { WriteReply, WriteRequest } from "./writer-protocol";
 
-interface InFlight {
-  rows: PendingRow[];
-  resolve: (rows: PendingRow[]) => void;
-  reject: (err: Error) => void;
-}
-
 export class ThreadedWriter implements ReadingWriter {
-  private worker: Worker | null = null;
-  private readonly inFlight = new Map<number, InFlight>();
-  private nextId = 1;
+  private readonly calls: ThreadCalls<WriteRequest, WriteReply>;
 
-  constructor(private readonly o: WriterOptions) {
-    this.thread(); // started now, so a database it cannot open shows at start-up
+  constructor(o: WriterOptions) {
+    this.calls = new ThreadCalls({
+      name: "writer",
+      module: new URL("./writer-thread.ts", import.meta.url),
+      data: { writer: o },
+      isReply: (m): m is WriteReply => typeof m === "object" && m !== null && "ok" in m,
+    });
   }
 
-  private thread(): Worker {
-    if (this.worker) return this.worker;
-    const worker = startThread(new URL("./writer-thread.ts", import.meta.url), { writer: this.o });
-    worker.on("message", (reply: WriteReply) => {
-      const w = this.inFlight.get(reply.id);
-      if (!w) return;
-      this.inFlight.delete(reply.id);
-      if (!reply.ok) w.reject(new Error(reply.error));
-      else if (reply.inserted === null) w.resolve(w.rows);
-      else w.resolve(w.rows.filter((_, i) => reply.inserted![i] === 1));
-    });
-    const lost = (why: string) => {
-      if (this.worker !== worker) return;
-      this.worker = null;
-      for (const w of this.inFlight.values()) w.reject(new Error(`the writer thread ${why}`));
-      this.inFlight.clear();
-    };
-    worker.on("error", (err) => lost(`failed: ${err.message}`));
-    worker.on("exit", (code) => lost(`exited with code ${code}`));
-    this.worker = worker;
-    return worker;
-  }
-
-  write(rows: PendingRow[], deadLetters: DeadLetter[], seen: Map<string, number>): Promise<PendingRow[]> {
-    const id = this.nextId++;
-    const request: WriteRequest = { id, rows: packReadings(rows), deadLetters, seen: [...seen] };
-    return new Promise((resolve, reject) => {
-      this.inFlight.set(id, { rows, resolve, reject });
-      this.thread().postMessage(request, [request.rows.buffer as ArrayBuffer]);
-    });
+  async write(rows: PendingRow[], deadLetters: DeadLetter[], seen: Map<string, number>): Promise<PendingRow[]> {
+    const packed = packReadings(rows);
+    const reply = await this.calls.call((id) => ({ id, rows: packed, deadLetters, seen: [...seen] }), [packed.buffer as ArrayBuffer]);
+    if (!reply.ok) throw new Error(reply.error);
+    const inserted = reply.inserted;
+    return inserted === null ? rows : rows.filter((_, i) => inserted[i] === 1);
   }
 
   close(): void {
-    const worker = this.worker;
-    this.worker = null;
-    worker?.postMessage("close"); // the thread closes its database and ends
+    this.calls.stop("close"); // the thread closes its database and ends
   }
 }
