@@ -134,11 +134,13 @@ for (const signal of ["SIGTERM", "SIGINT"] as const) {
     clearInterval(healthTimer);
     if (retentionTimer) clearTimeout(retentionTimer);
     refresher.stop();
-    hooks?.stop?.();
     // In a shared group a stopping worker first leaves it, so the others take its share at once,
     // then commits and acknowledges what it holds, and ends its session (nothing is queued for it).
+    // The hooks stop after that last commit: its readings still go through the alert rules (and
+    // a stopped alert thread is not started again for them).
     (shared ? session!.unsubscribeRaw().catch((err: unknown) => log.warn(`could not leave the shared group: ${errorText(err)}`)) : Promise.resolve())
       .then(() => pipeline.flush())
+      .then(() => hooks?.stop?.())
       .then(() => session?.close(shared !== null))
       .then(() => {
         writer.close();
