@@ -10,7 +10,7 @@ import { outOfSolutionClearMessage, outOfSolutionCondition, outOfSolutionFireMes
 import { rateClearMessage, rateCondition, rateFireMessage, ratePerMinute, updateHistory } from "./rules/rate-of-change";
 import { DEFAULT_RULE_SETTINGS, type RuleSettings } from "./settings";
 import { restoreProbeState, type ProbeAlertState } from "./state";
-import { forceClear, stepTracker, suspendTracker, type Condition } from "./tracker";
+import { advanceTracker, forceClear, suspendTracker, transitionOf, type Condition } from "./tracker";
 import type { AlertEvent, Band, CalibrationStatus, Measure, ReadingCause, ReadingQuality } from "./types";
 import { READING_CAUSES } from "./types";
 
@@ -76,11 +76,17 @@ function previousState(state: EvaluateReadingInput["state"]): ProbeAlertState {
 interface RuleStep {
   settings: RuleSettings;
   next: ProbeAlertState;
-  ctx: EventContext;
   events: AlertEvent[];
+  measure: Measure;
+  probeId: string | undefined;
   ts: number;
   value: number | null;
   untrusted: CalibrationStatus | null;
+}
+
+/** The events' shared fields, built only when a rule fires or clears. */
+function eventContext(s: RuleStep): EventContext {
+  return { measure: s.measure, probeId: s.probeId, at: s.ts, calibrationLapsed: s.untrusted !== null, settings: s.settings };
 }
 
 function suspendAll(next: ProbeAlertState, settings: RuleSettings) {
@@ -90,15 +96,17 @@ function suspendAll(next: ProbeAlertState, settings: RuleSettings) {
 /** Steps one enabled rule's tracker; returns the transition, for the caller to word (`emit`). */
 function runRule(s: RuleStep, cause: ReadingCause, cond: Condition | null, delays: { fireDelayMs: number; clearDelayMs: number }): "fire" | "clear" | null {
   if (!s.settings.causes[cause].enabled) return null;
-  const r = stepTracker(s.next.causes[cause], cond, { at: s.ts, fireDelayMs: delays.fireDelayMs, clearDelayMs: delays.clearDelayMs });
-  s.next.causes[cause] = r.tracker;
-  return r.transition;
+  const before = s.next.causes[cause];
+  const after = advanceTracker(before, cond, s.ts, delays.fireDelayMs, delays.clearDelayMs);
+  if (after === before) return null;
+  s.next.causes[cause] = after;
+  return transitionOf(before, after);
 }
 
 /** Records a transition's event; a firing reading notes an untrusted calibration unless told not to. */
 function emit(s: RuleStep, transition: "fire" | "clear", cause: ReadingCause, message: string, withNote = true) {
   const text = transition === "fire" && withNote ? message + calibrationNote(s.untrusted) : message;
-  s.events.push(makeEvent(s.ctx, transition, cause, text, s.value));
+  s.events.push(makeEvent(eventContext(s), transition, cause, text, s.value));
 }
 
 /** Which "not trusted" status to report: the probe's status, else the reading's flag. */
@@ -148,14 +156,9 @@ export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingRes
     flat: prev.flat,
   };
   const untrusted = untrustedStatus(input.calibration.status, quality);
-  const ctx: EventContext = {
-    measure,
-    probeId: input.probeId,
-    at: ts,
-    calibrationLapsed: untrusted !== null,
-    settings,
-  };
   const events: AlertEvent[] = [];
+  // Each rule's message is worded only when it fires or clears (not built for every reading).
+  const step: RuleStep = { settings, next, events, measure, probeId: input.probeId, ts, value, untrusted };
 
   // Disabled rules never fire; one that was firing is cleared (closes its incident).
   for (const c of READING_CAUSES) {
@@ -163,7 +166,7 @@ export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingRes
     const r = forceClear(next.causes[c]);
     next.causes[c] = r.tracker;
     if (r.transition === "clear") {
-      events.push(makeEvent(ctx, "clear", c, `${describeCause(c)} rule disabled`, value));
+      events.push(makeEvent(eventContext(step), "clear", c, `${describeCause(c)} rule disabled`, value));
       if (c === "out-of-band") next.bandSide = null;
     }
   }
@@ -201,8 +204,6 @@ export function evaluateReading(input: EvaluateReadingInput): EvaluateReadingRes
   }
 
   // ---- rules -------------------------------------------------------------------------------
-  // Each rule's message is worded only when it fires or clears (not built for every reading).
-  const step: RuleStep = { settings, next, ctx, events, ts, value, untrusted };
 
   const impl = runRule(step, "implausible", implausibleCondition(value, quality, range), settings.implausible);
   if (impl) emit(step, impl, "implausible", impl === "fire" ? implausibleFireMessage(measure, value, range) : implausibleClearMessage(measure, value));

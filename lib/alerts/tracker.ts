@@ -26,6 +26,12 @@ export interface StepResult {
   transition: Transition;
 }
 
+/** A condition that holds now (and so cannot clear), and one that is clear: shared, never changed. */
+export const ACTIVE: Readonly<Condition> = Object.freeze({ active: true, clearOk: false });
+export const CLEAR: Readonly<Condition> = Object.freeze({ active: false, clearOk: true });
+/** `ACTIVE` when `active`, else `CLEAR`: for rules whose clearing condition is just "not active". */
+export const conditionOf = (active: boolean): Readonly<Condition> => (active ? ACTIVE : CLEAR);
+
 /**
  * Debounced fire/clear: fires once the condition has held for `fireDelayMs`
  * (0 ⇒ on the first evaluation), clears once the clearing condition has held for
@@ -33,43 +39,48 @@ export interface StepResult {
  * so repeated evaluation of the same situation produces no further transitions.
  */
 export function stepTracker(t: CauseTracker, cond: Condition | null, o: StepOptions): StepResult {
-  // Every tracker is built as a literal with the same four fields (not spread): this runs for
-  // each rule of each reading, and literals of one shape are what V8 builds fastest.
-  if (cond === null) return { tracker: tracker(t.firing, t.firedAt, t.pendingSince, t.clearingSince), transition: null };
-  const allowFire = o.allowFire ?? true;
-  if (!t.firing) {
-    if (!cond.active || !allowFire) {
-      return { tracker: tracker(t.firing, t.firedAt, null, null), transition: null };
-    }
-    const pendingSince = t.pendingSince ?? o.at;
-    if (o.at - pendingSince >= o.fireDelayMs) {
-      return { tracker: tracker(true, o.at, null, null), transition: "fire" };
-    }
-    return { tracker: tracker(t.firing, t.firedAt, pendingSince, null), transition: null };
-  }
-  if (!cond.clearOk) {
-    return { tracker: tracker(t.firing, t.firedAt, null, null), transition: null };
-  }
-  const clearingSince = t.clearingSince ?? o.at;
-  if (o.at - clearingSince >= o.clearDelayMs) {
-    return { tracker: tracker(false, null, null, null), transition: "clear" };
-  }
-  return { tracker: tracker(t.firing, t.firedAt, null, clearingSince), transition: null };
+  const tracker = advanceTracker(t, cond, o.at, o.fireDelayMs, o.clearDelayMs, o.allowFire ?? true);
+  return { tracker, transition: transitionOf(t, tracker) };
 }
 
+/** "fire" or "clear" when a step from `before` to `after` changed whether the cause fires. */
+export function transitionOf(before: CauseTracker, after: CauseTracker): Transition {
+  if (before.firing === after.firing) return null;
+  return after.firing ? "fire" : "clear";
+}
+
+/**
+ * The tracker after one step (see stepTracker). Trackers are never changed in place, so when the
+ * step changes nothing `t` itself comes back: this runs for each rule of every reading, and most
+ * steps of a quiet probe change nothing.
+ */
+export function advanceTracker(t: CauseTracker, cond: Condition | null, at: number, fireDelayMs: number, clearDelayMs: number, allowFire = true): CauseTracker {
+  if (cond === null) return t;
+  if (!t.firing) {
+    if (!cond.active || !allowFire) return t.pendingSince === null && t.clearingSince === null ? t : tracker(false, t.firedAt, null, null);
+    const pendingSince = t.pendingSince ?? at;
+    if (at - pendingSince >= fireDelayMs) return tracker(true, at, null, null);
+    return t.pendingSince === pendingSince && t.clearingSince === null ? t : tracker(false, t.firedAt, pendingSince, null);
+  }
+  if (!cond.clearOk) return t.pendingSince === null && t.clearingSince === null ? t : tracker(true, t.firedAt, null, null);
+  const clearingSince = t.clearingSince ?? at;
+  if (at - clearingSince >= clearDelayMs) return tracker(false, null, null, null);
+  return t.clearingSince === clearingSince && t.pendingSince === null ? t : tracker(true, t.firedAt, null, clearingSince);
+}
+
+// Every tracker is built as a literal with the same four fields (not spread): literals of one
+// shape are what V8 builds fastest.
 function tracker(firing: boolean, firedAt: number | null, pendingSince: number | null, clearingSince: number | null): CauseTracker {
   return { firing, firedAt, pendingSince, clearingSince };
 }
 
 /** Silenced (hold, settling): forget pending timers, keep a firing cause firing. */
 export function suspendTracker(t: CauseTracker): CauseTracker {
-  return tracker(t.firing, t.firedAt, null, null);
+  return t.pendingSince === null && t.clearingSince === null ? t : tracker(t.firing, t.firedAt, null, null);
 }
 
 /** Unconditional clear (rule disabled). Reports "clear" only if it was firing. */
 export function forceClear(t: CauseTracker): StepResult {
-  return {
-    tracker: { firing: false, firedAt: null, pendingSince: null, clearingSince: null },
-    transition: t.firing ? "clear" : null,
-  };
+  const quiet = !t.firing && t.firedAt === null && t.pendingSince === null && t.clearingSince === null;
+  return { tracker: quiet ? t : tracker(false, null, null, null), transition: t.firing ? "clear" : null };
 }

@@ -25,6 +25,7 @@ import {
   type RuleSettings,
   type TankAlertState,
 } from "@/lib/alerts";
+import { ACTIVE, CLEAR, advanceTracker, stepTracker } from "@/lib/alerts/tracker";
 
 // ---------------------------------------------------------------------------------------
 // Fixtures. Times in the tables are seconds after T0 (3 a.m.), converted to ms epoch.
@@ -469,6 +470,25 @@ describe("no double firing, persistence, purity", () => {
     expect(r.events.map((e) => e.cause)).toEqual(["out-of-band"]);
     expect(JSON.stringify(state)).toBe(snapshot);
     expect(r.state).not.toBe(state);
+  });
+
+  it("a step that changes nothing gives the same tracker back; one that does builds a new one", () => {
+    const quiet = { firing: false, firedAt: null, pendingSince: null, clearingSince: null };
+    expect(advanceTracker(quiet, CLEAR, 1000, 5000, 5000)).toBe(quiet);
+    expect(advanceTracker(quiet, null, 1000, 5000, 5000)).toBe(quiet);
+    const pending = advanceTracker(quiet, ACTIVE, 1000, 5000, 5000);
+    expect(pending).toEqual({ firing: false, firedAt: null, pendingSince: 1000, clearingSince: null });
+    expect(advanceTracker(pending, ACTIVE, 2000, 5000, 5000)).toBe(pending);
+    const fired = advanceTracker(pending, ACTIVE, 6000, 5000, 5000);
+    expect(stepTracker(pending, ACTIVE, { at: 6000, fireDelayMs: 5000, clearDelayMs: 5000 })).toEqual({ tracker: fired, transition: "fire" });
+    expect(fired).toEqual({ firing: true, firedAt: 6000, pendingSince: null, clearingSince: null });
+    expect(advanceTracker(fired, ACTIVE, 7000, 5000, 5000)).toBe(fired);
+    const clearing = advanceTracker(fired, CLEAR, 8000, 5000, 5000);
+    expect(clearing).toEqual({ firing: true, firedAt: 6000, pendingSince: null, clearingSince: 8000 });
+    expect(advanceTracker(clearing, CLEAR, 9000, 5000, 5000)).toBe(clearing);
+    expect(stepTracker(clearing, CLEAR, { at: 13_000, fireDelayMs: 5000, clearDelayMs: 5000 })).toEqual({ tracker: quiet, transition: "clear" });
+    // The shared conditions cannot be changed by a caller.
+    expect(Object.isFrozen(ACTIVE) && Object.isFrozen(CLEAR)).toBe(true);
   });
 
   it("a disabled cause never fires, and one firing when disabled is cleared", () => {

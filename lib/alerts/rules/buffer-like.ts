@@ -1,6 +1,6 @@
 import { formatBand, formatValue, measureLabel } from "../format";
 import { isValidBand, isWithin } from "../ranges";
-import type { Condition } from "../tracker";
+import { conditionOf, type Condition } from "../tracker";
 import type { Band } from "../types";
 
 /**
@@ -22,7 +22,7 @@ export function nearExcludedBuffer(
 }
 
 export function bufferLikeCondition(buffer: number | null): Condition {
-  return { active: buffer !== null, clearOk: buffer === null };
+  return conditionOf(buffer !== null);
 }
 
 export function bufferLikeFireMessage(value: number, buffer: number, band: Band, sinceMs: number): string {

@@ -1,24 +1,22 @@
 import { formatDuration, probeLabel } from "../format";
-import type { Condition } from "../tracker";
+import { conditionOf, type Condition } from "../tracker";
 import type { CalibrationStatus, Measure } from "../types";
 
-const when = (active: boolean): Condition => ({ active, clearOk: !active });
-
 export function dueSoonCondition(status: CalibrationStatus): Condition {
-  return when(status === "due-soon");
+  return conditionOf(status === "due-soon");
 }
 
 /** A probe never calibrated counts as lapsed: its readings are not to be trusted. */
 export function lapsedCondition(status: CalibrationStatus): Condition {
-  return when(status === "lapsed" || status === "never");
+  return conditionOf(status === "lapsed" || status === "never");
 }
 
 export function rejectedCondition(lastRunRejected: boolean): Condition {
-  return when(lastRunRejected);
+  return conditionOf(lastRunRejected);
 }
 
 export function probeReplaceCondition(consecutiveRejections: number, threshold: number): Condition {
-  return when(consecutiveRejections >= threshold);
+  return conditionOf(consecutiveRejections >= threshold);
 }
 
 export function dueSoonFireMessage(m: Measure, now: number, dueAt: number | null | undefined): string {

@@ -1,6 +1,6 @@
 import { formatDuration, probeLabel } from "../format";
 import type { FlatRun } from "../state";
-import type { Condition } from "../tracker";
+import { conditionOf, type Condition } from "../tracker";
 import type { Measure } from "../types";
 
 /**
@@ -19,7 +19,7 @@ export function updateFlatRun(run: FlatRun | null, ts: number, raw: number, epsi
 
 export function flatlineCondition(run: FlatRun | null, ts: number, windowMs: number, minSamples: number): Condition {
   const flat = run !== null && run.count >= minSamples && ts - run.since >= windowMs;
-  return { active: flat, clearOk: !flat };
+  return conditionOf(flat);
 }
 
 export function flatlineFireMessage(m: Measure, run: FlatRun, ts: number): string {

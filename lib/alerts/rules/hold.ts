@@ -1,5 +1,5 @@
 import { formatDuration } from "../format";
-import type { Condition } from "../tracker";
+import { conditionOf, type Condition } from "../tracker";
 
 export interface HoldInfo {
   active: boolean;
@@ -27,7 +27,7 @@ export function holdOverrunMs(now: number, hold: HoldInfo): number | null {
 export function holdOverrunCondition(now: number, hold: HoldInfo, graceMs: number): Condition {
   const over = holdOverrunMs(now, hold);
   const active = over !== null && over > graceMs;
-  return { active, clearOk: !active };
+  return conditionOf(active);
 }
 
 /**
@@ -52,7 +52,7 @@ export function dosingInhibitOverrunCondition(
 ): Condition {
   const over = dosingInhibitOverrunMs(now, inhibit, hold);
   const active = over !== null && over > graceMs;
-  return { active, clearOk: !active };
+  return conditionOf(active);
 }
 
 export function holdOverrunFireMessage(overMs: number): string {

@@ -1,6 +1,6 @@
 import { formatBand, formatValue, measureLabel } from "../format";
 import { isWithin } from "../ranges";
-import type { Condition } from "../tracker";
+import { ACTIVE, conditionOf, type Condition } from "../tracker";
 import type { Band, Measure, ReadingQuality } from "../types";
 
 /**
@@ -13,10 +13,10 @@ export function implausibleCondition(
   quality: ReadingQuality,
   range: Band,
 ): Condition | null {
-  if (quality === "suspect") return { active: true, clearOk: false };
+  if (quality === "suspect") return ACTIVE;
   if (value === null) return null;
   const bad = !isWithin(value, range);
-  return { active: bad, clearOk: !bad };
+  return conditionOf(bad);
 }
 
 export function implausibleFireMessage(m: Measure, value: number | null, range: Band): string {

@@ -7,6 +7,9 @@ export interface OutOfBandCondition extends Condition {
   side: "above" | "below" | null;
 }
 
+/** Well inside the band (or no band): the usual answer, shared and never changed. */
+const IN_BAND: Readonly<OutOfBandCondition> = Object.freeze({ active: false, clearOk: true, side: null });
+
 /**
  * Outside [min, max] ⇒ active. Clearing needs the value back inside the band by
  * `hysteresisFraction` of the band width on both sides (fraction capped at 0.5).
@@ -17,11 +20,11 @@ export function outOfBandCondition(
   band: Band | null | undefined,
   hysteresisFraction: number,
 ): OutOfBandCondition {
-  if (!isValidBand(band)) return { active: false, clearOk: true, side: null };
+  if (!isValidBand(band)) return IN_BAND;
   const side = value > band.max ? "above" : value < band.min ? "below" : null;
   const margin = Math.min(Math.max(hysteresisFraction, 0), 0.5) * (band.max - band.min);
   const clearOk = value >= band.min + margin && value <= band.max - margin;
-  return { active: side !== null, clearOk, side };
+  return side === null && clearOk ? IN_BAND : { active: side !== null, clearOk, side };
 }
 
 export function outOfBandFireMessage(m: Measure, value: number, band: Band, side: "above" | "below"): string {

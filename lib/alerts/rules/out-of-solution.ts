@@ -1,10 +1,10 @@
 import { formatLimit, formatValue, measureLabel } from "../format";
-import type { Condition } from "../tracker";
+import { conditionOf, type Condition } from "../tracker";
 
 /** EC near zero: the probe is in air (out of solution) or the tank is empty. */
 export function outOfSolutionCondition(ec: number, maxEc: number): Condition {
   const dry = ec < maxEc;
-  return { active: dry, clearOk: !dry };
+  return conditionOf(dry);
 }
 
 export function outOfSolutionFireMessage(ec: number): string {

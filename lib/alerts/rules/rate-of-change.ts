@@ -1,6 +1,6 @@
 import { formatValue, measureLabel, trimNumber, unitSuffix } from "../format";
 import type { RateSample } from "../state";
-import type { Condition } from "../tracker";
+import { conditionOf, type Condition } from "../tracker";
 import type { Measure } from "../types";
 
 /**
@@ -56,8 +56,7 @@ export function updateHistory(
 
 export function rateCondition(rate: number | null, maxPerMinute: number): Condition | null {
   if (rate === null) return null;
-  const fast = Math.abs(rate) > maxPerMinute;
-  return { active: fast, clearOk: !fast };
+  return conditionOf(Math.abs(rate) > maxPerMinute);
 }
 
 function perMinute(m: Measure, v: number): string {
