@@ -57,6 +57,8 @@ export class Pipeline {
   private seenPending = new Map<string, number>();
   private lastFailureLog = 0;
   private writeLock: Promise<unknown> = Promise.resolve();
+  /** The hook call of the last committed batch (never rejects: runHook counts errors). */
+  private hookRunning: Promise<void> = Promise.resolve();
   /** Per probe, the earliest ts committed since the calibrations were last loaded. */
   readonly committedSinceRefresh = new Map<number, number>();
   private readonly now: () => number;
@@ -176,6 +178,14 @@ export class Pipeline {
   }
 
   private async loop() {
+    do {
+      await this.writeAll();
+      // flush() resolves once the last batch's hook is done too; rows that came meanwhile go next.
+      await this.hookRunning;
+    } while (this.current.rows.length || this.current.acks.length);
+  }
+
+  private async writeAll() {
     while (this.current.rows.length || this.current.acks.length) {
       const batch = this.current;
       this.current = { rows: [], acks: [] };
@@ -220,7 +230,11 @@ export class Pipeline {
         // commands), and a paused session reads nothing, PUBACKs included: reading resumes
         // before the hook runs, or the two would wait for each other for ever.
         this.releaseWaiters(true);
-        await this.runHook(inserted);
+        // Hooks run one at a time and in commit order, but the next batch is written while this
+        // one's hook runs (the writer and the alert rules have a thread each): wait for the hook
+        // before this one, then go on to the next write without waiting for this one.
+        await this.hookRunning;
+        this.hookRunning = this.runHook(inserted);
       }
     }
   }

@@ -23,6 +23,9 @@ export const ingestSection: BenchSection = {
     load_average_1m: "load",
     sqlite_insert_ceiling_per_s: "rows/s",
     ingest_vs_ceiling_ratio: "ratio",
+    ingest_rows_per_commit: "rows",
+    sqlite_insert_ceiling_at_ingest_batch_per_s: "rows/s",
+    ingest_vs_ceiling_at_ingest_batch_ratio: "ratio",
     ingest_rss_mb: "MB",
     ingest_drain_readings_per_s: "readings/s",
     drain_broker_cpu_us_per_reading: "µs",
@@ -84,6 +87,13 @@ export const ingestSection: BenchSection = {
       const ceiling = timed.median;
       yield { metric: "sqlite_insert_ceiling_per_s", value: Math.round(ceiling), unit: "rows/s" };
       yield { metric: "ingest_vs_ceiling_ratio", value: Math.round((ingestRate / ceiling) * 1000) / 1000, unit: "ratio" };
+      // The same ceiling with the transactions as large as the ingest's own in this run.
+      const rowsPerCommit = Math.round(rows / Math.max(1, last.flush.count - first.flush.count));
+      const atBatch = medianInsertCeiling(db.file, probeIds, Math.max(100_000, Math.round(ingestRate * 5)), Math.max(50, Math.round(rowsPerCommit / 50) * 50), 4);
+      log(`SQLite ceiling at the ingest's ${rowsPerCommit} rows per commit: ${atBatch.runs.map((r) => Math.round(r)).join(", ")} rows/s`);
+      yield { metric: "ingest_rows_per_commit", value: rowsPerCommit, unit: "rows" };
+      yield { metric: "sqlite_insert_ceiling_at_ingest_batch_per_s", value: Math.round(atBatch.median), unit: "rows/s" };
+      yield { metric: "ingest_vs_ceiling_at_ingest_batch_ratio", value: Math.round((ingestRate / atBatch.median) * 1000) / 1000, unit: "ratio" };
       yield { metric: "ingest_rss_mb", value: rss, unit: "MB" };
       yield { metric: "ingest_drain_readings_per_s", value: Math.round(drain.rate), unit: "readings/s" };
       yield { metric: "drain_broker_cpu_us_per_reading", value: drain.brokerUs, unit: "µs" };
