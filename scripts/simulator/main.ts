@@ -79,7 +79,7 @@ for (const f of args.fault as FaultSpec[]) {
   applyControl(target.controllerId, { v: 1, fault: f.cause, measure: f.measure }, start);
 }
 const control = listenForControl(url, (id, msg) => applyControl(id, msg, Date.now()), log);
-// Scripts and tests wait for this line before they send control messages or place holds.
+// The end-to-end set-up waits for this line before its tests send faults or place holds.
 void Promise.all([control.subscribed, ...[...devices.values()].map((d) => d.subscribed)]).then(() =>
   log("ready: listening for control messages and dosing commands"),
 );
