@@ -2,7 +2,8 @@
 //
 // createHooks is called once at start with what a plug-in needs (the database and a way to
 // publish on the broker as svc-ingest). Its onReadingsCommitted is called once per committed
-// batch with the rows that were new (never duplicates), in commit order, one call at a time:
+// batch with the rows that were new (never duplicates, packed: ./packed-readings.ts), in commit
+// order, one call at a time:
 // the next batch's call waits for this one, so an implementation can keep per-probe state
 // without locking. It runs after the batch's MQTT acknowledgements went out; an error is logged
 // and counted (hookErrors in the health snapshot), never retried. `stop` runs on shutdown.
@@ -16,6 +17,7 @@ import { startElectedAlerts } from "./alerts/elected";
 import { startThreadedHooks } from "./alerts/threaded";
 import { fromEnv, startAlerts } from "./alerts/wire";
 import type { CalibratedReading } from "./payloads";
+import type { PackedReadings } from "./packed-readings";
 
 export interface CommittedReading extends CalibratedReading {
   calibrationRunId: number | null;
@@ -30,7 +32,7 @@ export interface HookContext {
 }
 
 export interface IngestHooks {
-  onReadingsCommitted(readings: readonly CommittedReading[]): void | Promise<void>;
+  onReadingsCommitted(readings: PackedReadings): void | Promise<void>;
   stop?(): void;
 }
 

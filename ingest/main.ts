@@ -51,11 +51,7 @@ const pipeline = new Pipeline({
   writer,
   metrics,
   publish: (topic, payload) => session?.publish(topic, payload),
-  ackAll: (acks) => {
-    const send = () => acks.forEach((ack) => ack());
-    if (session) session.corked(send);
-    else send();
-  },
+  ackAll: (acks) => session?.ackAll(acks),
   onCommitted: (readings) => hooks?.onReadingsCommitted(readings),
   log,
   flushMs: config.flushMs,

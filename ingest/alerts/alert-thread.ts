@@ -5,7 +5,7 @@
 import { parentPort, workerData } from "node:worker_threads";
 import { getDb } from "../../db/client";
 import { createInPlaceHooks } from "../hooks";
-import { unpackReadings } from "../packed-readings";
+import { PackedReadings } from "../packed-readings";
 import type { FromAlertThread, ToAlertThread } from "./thread-protocol";
 
 const port = parentPort;
@@ -32,7 +32,7 @@ let queue: Promise<void> = Promise.resolve();
 port.on("message", (m: ToAlertThread) => {
   if (m.kind === "readings") {
     queue = queue
-      .then(() => hooks.onReadingsCommitted(unpackReadings(m.rows)))
+      .then(() => hooks.onReadingsCommitted(new PackedReadings(m.rows)))
       .catch((err: unknown) => console.error("[alerts] evaluating a batch failed", err))
       .then(() => send({ kind: "done", id: m.id }));
   } else if (m.kind === "published") {

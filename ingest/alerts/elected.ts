@@ -15,7 +15,8 @@ import { z } from "zod";
 import type { Db } from "../../db/client";
 import { PROBE_KINDS, QUALITY_FLAGS } from "../../db/schema";
 import type { AlertsHandle } from "./wire";
-import { createAlertRunner, type AlertRunner, type CommittedReading } from "./runner";
+import { createAlertRunner, type AlertRunner } from "./runner";
+import { PackedReadingsBuilder } from "../packed-readings";
 import type { Publish } from "./publish";
 
 const LEASE_NAME = "alerts";
@@ -107,12 +108,12 @@ export function startElectedAlerts(o: ElectedAlertsOptions): AlertsHandle & { is
         .parse(await db.all(sql`SELECT rowid, probe_id, ts, raw, value, quality FROM readings WHERE rowid > ${cursor} ORDER BY rowid LIMIT ${PAGE_ROWS}`));
       if (rows.length === 0) return;
       if (rows.some((row) => !probes.has(row.probe_id))) await loadProbes();
-      const readings: CommittedReading[] = [];
+      const readings = new PackedReadingsBuilder();
       for (const row of rows) {
         const p = probes.get(row.probe_id);
-        if (p) readings.push({ orgId: p.org_id, tankId: p.tank_id, probeId: p.id, kind: p.kind, ts: row.ts, raw: row.raw, value: row.value, quality: row.quality });
+        if (p) readings.push(p.org_id, p.tank_id, p.id, p.kind, row.ts, row.raw, row.value, row.quality, null);
       }
-      await r.onReadings(readings);
+      await r.onReadings(readings.take());
       cursor = rows[rows.length - 1].rowid;
       await db.run(sql`UPDATE leases SET cursor = ${cursor} WHERE name = ${LEASE_NAME} AND holder = ${o.holder}`);
       if (rows.length < PAGE_ROWS) return;

@@ -7,7 +7,7 @@ import type { Db } from "../../db/client";
 import { incidentEvents, incidents, sites } from "../../db/schema";
 import { releaseHold, markDosingSent } from "../../db/queries/holds";
 import { evaluateReading, evaluateTime, isFiring, restoreProbeState, restoreTankState, formatDuration, type AlertEvent, type Cause, type ReadingTankContext } from "../../lib/alerts";
-import type { CalibratedReading } from "../payloads";
+import type { PackedReadings } from "../packed-readings";
 import { sendMail as smtpSendMail } from "../mailer";
 import { calibrationInfo, lastReadingTimes, loadContext, loadHolds, settlingFrom, timeRuleHold, type AlertContext, type HoldRow, type ProbeContext, type TankContext, type TankHolds } from "./context";
 import { sendDueDigests } from "./digest";
@@ -17,8 +17,6 @@ import { mailIncident, recipientsWithRole, routeFor, type SendMail } from "./not
 import { EVENT_PUBLISH, orgEventMessage } from "./org-events";
 import type { Publish } from "./publish";
 import { probeKey, readStates, tankKey, writeStates } from "./state-store";
-
-export type CommittedReading = Omit<CalibratedReading, "v">;
 
 export interface AlertRunnerOptions {
   db: Db;
@@ -33,7 +31,7 @@ export interface AlertRunnerOptions {
 }
 
 export interface AlertRunner {
-  onReadings(readings: readonly CommittedReading[]): Promise<void>;
+  onReadings(readings: PackedReadings): Promise<void>;
   tick(now?: number): Promise<void>;
 }
 
@@ -155,23 +153,24 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
     tankInput: ReadingTankContext;
   }
 
-  async function handleReadings(readings: readonly CommittedReading[]) {
+  async function handleReadings(readings: PackedReadings) {
     if (readings.length === 0) return;
+    const probeIds = new Set<number>();
+    for (let i = 0; i < readings.length; i++) probeIds.add(readings.probeId(i));
     let c = await context(false);
-    if (readings.some((r) => !c.probes.has(r.probeId))) c = await context(true); // a probe added since loading
+    if ([...probeIds].some((id) => !c.probes.has(id))) c = await context(true); // a probe added since loading
     const holdsByTank = await loadHolds(db);
     // Worked out once per probe per batch, not for each of its readings.
     const inBatch = new Map<number, ProbeInBatch | null>();
-    for (const r of readings) {
-      if (inBatch.has(r.probeId)) continue;
-      const probe = c.probes.get(r.probeId);
+    for (const probeId of probeIds) {
+      const probe = c.probes.get(probeId);
       const tank = probe ? c.tanks.get(probe.tankId) : undefined;
       if (!probe || !tank) {
-        inBatch.set(r.probeId, null);
+        inBatch.set(probeId, null);
         continue;
       }
       const h = holdsByTank.get(tank.id);
-      inBatch.set(r.probeId, {
+      inBatch.set(probeId, {
         key: probeKey(probe.id),
         probe,
         tank,
@@ -183,17 +182,21 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
     await ensureStates(known.map((p) => p.key));
     const working = new Map<string, unknown>();
     const eventsByTank = new Map<number, AlertEvent[]>();
-    const sorted = [...readings].sort((a, b) => a.ts - b.ts);
-    for (const r of sorted) {
-      const p = inBatch.get(r.probeId);
+    // In time order, by index: the batch stays packed (see ../packed-readings.ts).
+    const order = Array.from({ length: readings.length }, (_, i) => i).sort((a, b) => readings.ts(a) - readings.ts(b));
+    for (const i of order) {
+      const p = inBatch.get(readings.probeId(i));
       if (!p) continue;
+      const ts = readings.ts(i);
+      const kind = readings.kind(i);
+      const value = readings.value(i);
       const result = evaluateReading({
         state: (working.has(p.key) ? working.get(p.key) : states.get(p.key)) as never,
         probeId: p.probeId,
         // lib/alerts works in mS/cm; readings carry µS/cm.
-        reading: { ts: r.ts, value: r.value === null ? null : r.kind === "ec" ? r.value / 1000 : r.value, raw: r.raw, measure: r.kind, quality: r.quality },
+        reading: { ts, value: value === null ? null : kind === "ec" ? value / 1000 : value, raw: readings.raw(i), measure: kind, quality: readings.quality(i) },
         tank: p.tankInput,
-        calibration: { status: calibrationInfo(p.tank, p.probe, r.ts).status },
+        calibration: { status: calibrationInfo(p.tank, p.probe, ts).status },
         settings: p.tank.settings,
       });
       working.set(p.key, result.state);

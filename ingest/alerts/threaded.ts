@@ -4,9 +4,9 @@
 // commit order), and reads the broker meanwhile. If the thread dies, the batch in flight is
 // counted as a hook error (as an error in place would be) and the next batch starts a new thread,
 // which restores the rules' state from the database.
-import type { CommittedReading, HookContext, IngestHooks } from "../hooks";
+import type { HookContext, IngestHooks } from "../hooks";
 import { ThreadCalls } from "../thread";
-import { packReadings } from "../packed-readings";
+import type { PackedReadings } from "../packed-readings";
 import type { FromAlertThread, ToAlertThread } from "./thread-protocol";
 
 type BatchRequest = Extract<ToAlertThread, { kind: "readings" }>;
@@ -30,8 +30,9 @@ export function startThreadedHooks(ctx: HookContext): IngestHooks {
   });
 
   return {
-    async onReadingsCommitted(readings: readonly CommittedReading[]) {
-      const rows = packReadings(readings);
+    async onReadingsCommitted(readings: PackedReadings) {
+      // Moved, not copied: the pipeline is done with a batch once its hook runs.
+      const rows = readings.data;
       await calls.call((id) => ({ kind: "readings", id, rows }), [rows.buffer as ArrayBuffer]);
     },
     stop() {

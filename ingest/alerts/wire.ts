@@ -1,7 +1,8 @@
 // How the ingest process runs the alert runner: feed it every committed batch and tick it
 // every 30 s. Failures are logged, never thrown into the ingest's write path.
 import type { Db } from "../../db/client";
-import { createAlertRunner, type AlertRunnerOptions, type CommittedReading } from "./runner";
+import { createAlertRunner, type AlertRunnerOptions } from "./runner";
+import type { PackedReadings } from "../packed-readings";
 import type { Publish } from "./publish";
 
 export const TICK_EVERY_MS = 30_000;
@@ -14,7 +15,7 @@ export function fromEnv(name: string): number | undefined {
 
 export interface AlertsHandle {
   /** Hand it each batch once it is committed to `readings`. Never rejects. */
-  onReadingsCommitted(readings: readonly CommittedReading[]): Promise<void>;
+  onReadingsCommitted(readings: PackedReadings): Promise<void>;
   /** Stops the 30 s tick (call on shutdown). */
   stop(): void;
 }

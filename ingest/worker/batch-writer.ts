@@ -10,32 +10,14 @@
 // libSQL server (DATABASE_URL=libsql://...), where round trips dominate anyway.
 import Database from "libsql";
 import { createClient, type InArgs } from "@libsql/client";
-import type { ProbeKind, QualityFlag } from "../../db/schema";
 import type { DeadLetter } from "./refusals";
 import { ThreadedWriter } from "./threaded-writer";
 import { aggregateRollups, hourlyOf, hourlyUpsertSql, rollupUpsertSql, type RollupDelta } from "./rollups";
-
-export interface PendingRow {
-  /** The row is also the reading handed to the alert hook as it is (a `CommittedReading`). */
-  v: 1;
-  probeId: number;
-  ts: number;
-  raw: number;
-  value: number | null;
-  quality: QualityFlag;
-  calibrationRunId: number | null;
-  // Carried for the live stream and the alert hook, not stored in the row.
-  kind: ProbeKind;
-  tankId: number;
-  orgId: number;
-}
-
-/** The fields of a reading that are stored. */
-export type StoredRow = Pick<PendingRow, "probeId" | "ts" | "raw" | "value" | "quality" | "calibrationRunId">;
+import type { PackedReadings } from "../packed-readings";
 
 export interface ReadingWriter {
   /** Writes one batch in one transaction; resolves with the rows that were new. */
-  write(rows: PendingRow[], deadLetters: DeadLetter[], seen: Map<string, number>): Promise<PendingRow[]>;
+  write(rows: PackedReadings, deadLetters: DeadLetter[], seen: Map<string, number>): Promise<PackedReadings>;
   close(): void;
 }
 
@@ -105,33 +87,40 @@ export class NativeWriter {
     return stmt;
   }
 
-  /** Inserts the rows; returns those that were new (a repeat, stored or in the batch, is not). */
-  private insertRows<R extends StoredRow>(rows: R[]): R[] {
-    const inserted: R[] = [];
-    for (let i = 0; i < rows.length; i += ROWS_PER_INSERT) {
-      const chunk = rows.slice(i, i + ROWS_PER_INSERT);
-      const args: unknown[] = [];
-      for (const r of chunk) args.push(r.probeId, r.ts, r.raw, r.value, r.quality, r.calibrationRunId);
+  /**
+   * Inserts the rows; returns one flag a row, 1 when it was new (a repeat, stored or earlier in
+   * the batch, is not), or null when every row was.
+   */
+  private insertRows(rows: PackedReadings): Uint8Array | null {
+    let isNew: Uint8Array | null = null;
+    const args: unknown[] = [];
+    for (let from = 0; from < rows.length; from += ROWS_PER_INSERT) {
+      const to = Math.min(from + ROWS_PER_INSERT, rows.length);
+      args.length = 0;
+      for (let i = from; i < to; i++) args.push(rows.probeId(i), rows.ts(i), rows.raw(i), rows.value(i), rows.quality(i), rows.calibrationRunId(i));
       this.tx.savepoint.run();
-      if (this.insertStatement(chunk.length).run(args).changes === chunk.length) {
-        this.tx.release.run();
-        inserted.push(...chunk); // the usual case: nothing was a duplicate
+      if (this.insertStatement(to - from).run(args).changes === to - from) {
+        this.tx.release.run(); // the usual case: nothing was a duplicate
         continue;
       }
       this.tx.rollbackTo.run();
       this.tx.release.run();
+      isNew ??= new Uint8Array(rows.length).fill(1);
       const one = this.insertStatement(1);
-      for (const r of chunk) if (one.run(r.probeId, r.ts, r.raw, r.value, r.quality, r.calibrationRunId).changes) inserted.push(r);
+      for (let i = from; i < to; i++) {
+        isNew[i] = one.run(rows.probeId(i), rows.ts(i), rows.raw(i), rows.value(i), rows.quality(i), rows.calibrationRunId(i)).changes ? 1 : 0;
+      }
     }
-    return inserted;
+    return isNew;
   }
 
-  write<R extends StoredRow>(rows: R[], deadLetters: DeadLetter[], seen: Map<string, number>): R[] {
-    let inserted: R[];
+  /** One transaction; returns which rows were new, as `insertRows` does. */
+  write(rows: PackedReadings, deadLetters: DeadLetter[], seen: Map<string, number>): Uint8Array | null {
+    let isNew: Uint8Array | null;
     this.tx.begin.run();
     try {
-      inserted = this.insertRows(rows);
-      const minutes = aggregateRollups(inserted);
+      isNew = this.insertRows(rows);
+      const minutes = aggregateRollups(rows, isNew);
       for (const d of minutes) this.upsert.run(d.probeId, d.minute, d.min, d.max, d.sum, d.count);
       for (const d of hourlyOf(minutes)) this.upsertHourly.run(d.probeId, d.minute, d.min, d.max, d.sum, d.count);
       for (const d of deadLetters) {
@@ -144,7 +133,7 @@ export class NativeWriter {
       if (this.db.inTransaction) this.db.exec("ROLLBACK");
       throw err;
     }
-    return inserted;
+    return isNew;
   }
 
   close(): void {
@@ -161,27 +150,26 @@ class ClientWriter implements ReadingWriter {
     this.client = createClient({ url: o.url, authToken: process.env.DATABASE_AUTH_TOKEN, concurrency: 1, timeout: 10_000 });
   }
 
-  async write(rows: PendingRow[], deadLetters: DeadLetter[], seen: Map<string, number>): Promise<PendingRow[]> {
-    const byKey = new Map<string, PendingRow>();
-    for (const r of rows) {
-      const k = `${r.probeId}:${r.ts}`;
-      if (!byKey.has(k)) byKey.set(k, r); // a repeat inside the batch is a duplicate too
+  async write(rows: PackedReadings, deadLetters: DeadLetter[], seen: Map<string, number>): Promise<PackedReadings> {
+    const byKey = new Map<string, number>(); // probe and ts → the row's index
+    for (let i = 0; i < rows.length; i++) {
+      const k = `${rows.probeId(i)}:${rows.ts(i)}`;
+      if (!byKey.has(k)) byKey.set(k, i); // a repeat inside the batch is a duplicate too
     }
     const unique = [...byKey.values()];
-    const inserted: PendingRow[] = [];
+    const isNew = new Uint8Array(rows.length);
     const tx = await this.client.transaction("write");
     try {
-      for (let i = 0; i < unique.length; i += CHUNK) {
-        const chunk = unique.slice(i, i + CHUNK);
+      for (let from = 0; from < unique.length; from += CHUNK) {
+        const chunk = unique.slice(from, from + CHUNK);
         const args: InArgs = [];
-        for (const r of chunk) args.push(r.probeId, r.ts, r.raw, r.value, r.quality, r.calibrationRunId);
+        for (const i of chunk) args.push(rows.probeId(i), rows.ts(i), rows.raw(i), rows.value(i), rows.quality(i), rows.calibrationRunId(i));
         const sql = `INSERT INTO readings (probe_id, ts, raw, value, quality, calibration_run_id) VALUES ${Array(chunk.length).fill("(?,?,?,?,?,?)").join(",")}
           ON CONFLICT DO NOTHING RETURNING probe_id, ts`;
         const rs = await tx.execute({ sql, args });
-        if (rs.rows.length === chunk.length) inserted.push(...chunk);
-        else for (const row of rs.rows) inserted.push(byKey.get(`${row[0]}:${row[1]}`)!);
+        for (const row of rs.rows) isNew[byKey.get(`${row[0]}:${row[1]}`)!] = 1;
       }
-      const minutes: RollupDelta[] = aggregateRollups(inserted);
+      const minutes: RollupDelta[] = aggregateRollups(rows, isNew);
       for (const [deltas, upsertSql] of [
         [minutes, rollupUpsertSql],
         [hourlyOf(minutes), hourlyUpsertSql],
@@ -205,7 +193,7 @@ class ClientWriter implements ReadingWriter {
     } finally {
       tx.close();
     }
-    return inserted;
+    return rows.keep(isNew);
   }
 
   close(): void {

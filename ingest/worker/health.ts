@@ -2,6 +2,7 @@
 // GET /api/ingest/health and by the bench).
 import type { Client as DbClient } from "@libsql/client";
 import { ingestStats, type IngestStats } from "../payloads";
+import type { PackedReadings } from "../packed-readings";
 
 export class IngestMetrics {
   readonly startedAt = Date.now();
@@ -21,15 +22,15 @@ export class IngestMetrics {
   private windowLagMax: number | null = null;
 
   /** After a commit: `inserted` new rows out of `received` samples, committed at `at`. */
-  recordCommit(insertedTs: readonly number[], received: number, at: number, flushMs: number): void {
+  recordCommit(inserted: PackedReadings, received: number, at: number, flushMs: number): void {
     this.flushCount++;
     this.lastFlushMs = flushMs;
     this.lastFlushRows = received;
-    this.readingsTotal += insertedTs.length;
-    this.duplicatesTotal += received - insertedTs.length;
-    this.windowRows += insertedTs.length;
-    for (const ts of insertedTs) {
-      const lag = at - ts;
+    this.readingsTotal += inserted.length;
+    this.duplicatesTotal += received - inserted.length;
+    this.windowRows += inserted.length;
+    for (let i = 0; i < inserted.length; i++) {
+      const lag = at - inserted.ts(i);
       this.windowLagSum += lag;
       if (this.windowLagMax === null || lag > this.windowLagMax) this.windowLagMax = lag;
     }

@@ -12,16 +12,23 @@ import mqtt, { type IClientOptions, type IPublishPacket, type MqttClient, type P
 import type { Logger } from "../log";
 import { errorText } from "../log";
 
-const noAck = () => {};
-
 type SendPacket = (packet: Packet, cb?: (err?: Error) => void, cbStorePut?: () => void, noStore?: boolean) => void;
+
+/**
+ * Names one received QoS 1 message for `ackAll`: its packet id and the connection it came on,
+ * as one number (a batch holds thousands of these until it commits: numbers, not closures).
+ */
+export type AckToken = number;
+
+const IDS_PER_CONNECTION = 65_536; // MQTT packet ids are 16 bits
 
 export interface RawHandler {
   /**
-   * A raw message; `ack` sends its PUBACK. Return a promise to pause reading from the broker
-   * until it settles (backpressure), or nothing to keep reading.
+   * A raw message; `ack` (null for QoS 0) is what `ackAll` sends its PUBACK for. Return a
+   * promise to pause reading from the broker until it settles (backpressure), or nothing to
+   * keep reading.
    */
-  (topic: string, payload: Buffer, ack: () => void): Promise<void> | void;
+  (topic: string, payload: Buffer, ack: AckToken | null): Promise<void> | void;
 }
 
 export interface IngestSessionOptions {
@@ -47,8 +54,11 @@ export interface IngestSessionOptions {
 
 export interface IngestSession {
   client: MqttClient;
-  /** Runs `fn` (which sends many acks) with the socket corked: one write instead of hundreds. */
-  corked(fn: () => void): void;
+  /**
+   * Sends the PUBACKs of these messages, in one write. Those received on an earlier connection
+   * are skipped: the broker redelivers them, and the database ignores the duplicates.
+   */
+  ackAll(acks: readonly AckToken[]): void;
   publish(topic: string, payload: string | Buffer, qos?: 0 | 1, retain?: boolean): void;
   /** Stops new raw messages coming (the broker gives them to the rest of a shared group). */
   unsubscribeRaw(): Promise<void>;
@@ -89,15 +99,6 @@ export function openIngestSession(o: IngestSessionOptions): IngestSession {
     sendPacket(packet, cb, cbStorePut, noStore);
   };
 
-  // Built per message by a plain function: a named arrow inside the handler would be re-created
-  // and (under tsx, which keeps function names) renamed for every message.
-  function pubackOf(messageId: number, gen: number): () => void {
-    return () => {
-      if (gen !== generation || !client.connected) return; // the broker will redeliver it
-      sendPacket({ cmd: "puback", messageId }, undefined, undefined, true);
-    };
-  }
-
   client.handleMessage = (packet: IPublishPacket, callback) => {
     const payload = Buffer.isBuffer(packet.payload) ? packet.payload : Buffer.from(packet.payload);
     if (!o.isRawTopic(packet.topic)) {
@@ -108,7 +109,7 @@ export function openIngestSession(o: IngestSessionOptions): IngestSession {
       }
       return;
     }
-    const ack = packet.qos > 0 && packet.messageId !== undefined ? pubackOf(packet.messageId, generation) : noAck;
+    const ack = packet.qos > 0 && packet.messageId !== undefined ? generation * IDS_PER_CONNECTION + packet.messageId : null;
     const pause = o.onRaw(packet.topic, payload, ack);
     if (pause) pause.then(() => callback(), () => callback());
     else callback();
@@ -136,12 +137,20 @@ export function openIngestSession(o: IngestSessionOptions): IngestSession {
 
   return {
     client,
-    corked(fn) {
+    ackAll(acks) {
+      if (!client.connected) return; // the broker will redeliver them all
+      const current = generation * IDS_PER_CONNECTION;
+      const send = () => {
+        for (const ack of acks) {
+          const messageId = ack - current;
+          if (messageId >= 0 && messageId < IDS_PER_CONNECTION) sendPacket({ cmd: "puback", messageId }, undefined, undefined, true);
+        }
+      };
       const stream = client.stream as Partial<Pick<import("node:net").Socket, "cork" | "uncork">> | undefined;
-      if (!stream?.cork || !stream.uncork) return fn();
+      if (!stream?.cork || !stream.uncork) return send();
       stream.cork();
       try {
-        fn();
+        send();
       } finally {
         process.nextTick(() => stream.uncork?.());
       }

@@ -3,9 +3,9 @@
 // hand them to the alert hook. One flush runs at a time; messages keep arriving meanwhile.
 import { controllerOfRawTopic, topics } from "../topics";
 import { isFuture, type RawSample, type RefusalReason } from "../payloads";
-import type { CommittedReading, IngestHooks } from "../hooks";
+import type { IngestHooks } from "../hooks";
 import { errorText, type Logger } from "../log";
-import type { PendingRow, ReadingWriter } from "./batch-writer";
+import type { ReadingWriter } from "./batch-writer";
 import type { CalibrationBook } from "./calibrations";
 import { correct, isPhysical } from "./correct";
 import { decodeRaw } from "./decode";
@@ -13,6 +13,8 @@ import { encodeReadingBatch } from "./live-batch";
 import type { IngestMetrics } from "./health";
 import type { HoldBook } from "./holds";
 import type { ProbeInfo, Registry } from "./registry";
+import { PackedReadingsBuilder, type PackedReadings } from "../packed-readings";
+import type { AckToken } from "./mqtt-session";
 import type { Refusals } from "./refusals";
 import type { TankTemperatures } from "./temperatures";
 
@@ -26,7 +28,7 @@ export interface PipelineDeps {
   metrics: IngestMetrics;
   publish: (topic: string, payload: string) => void;
   /** Sends the acknowledgements of a batch together (corks the broker connection). */
-  ackAll: (acks: (() => void)[]) => void;
+  ackAll: (acks: AckToken[]) => void;
   onCommitted: IngestHooks["onReadingsCommitted"];
   log: Logger;
   flushMs: number;
@@ -37,8 +39,9 @@ export interface PipelineDeps {
 }
 
 interface Batch {
-  rows: PendingRow[];
-  acks: (() => void)[];
+  rows: PackedReadingsBuilder;
+  /** Numbers, not a closure a message: they live as long as the batch (see ../packed-readings.ts). */
+  acks: AckToken[];
 }
 
 const DAY_MS = 86_400_000;
@@ -47,7 +50,9 @@ const SEEN_EVERY_MS = 10_000; // how often a device's last_seen_at is written at
 const ORDER: Record<ProbeInfo["kind"], number> = { temp: 0, ph: 1, ec: 2 };
 
 export class Pipeline {
-  private current: Batch = { rows: [], acks: [] };
+  private current: Batch = { rows: new PackedReadingsBuilder(), acks: [] };
+  /** The rows of a batch whose commit failed, written again before the rows that came since. */
+  private retry: PackedReadings | null = null;
   private inFlight = 0; // rows of the batch being written
   private timer: NodeJS.Timeout | null = null;
   private flushing: Promise<void> | null = null;
@@ -67,22 +72,27 @@ export class Pipeline {
     this.now = d.now ?? Date.now;
   }
 
+  /** Rows received and not yet committed. */
+  private get pendingRows() {
+    return this.current.rows.length + this.inFlight + (this.retry?.length ?? 0);
+  }
+
   get queueDepth() {
-    return { samples: this.current.rows.length + this.inFlight, messages: this.current.acks.length };
+    return { samples: this.pendingRows, messages: this.current.acks.length };
   }
 
   /**
    * One raw message from the broker. Returns a promise when the worker is too far behind:
    * the session then stops reading from the broker until it settles.
    */
-  accept(topic: string, payload: Buffer, ack: () => void): Promise<void> | void {
+  accept(topic: string, payload: Buffer, ack: AckToken | null): Promise<void> | void {
     const m = this.d.metrics;
     m.messagesTotal++;
-    this.current.acks.push(ack);
+    if (ack !== null) this.current.acks.push(ack);
     this.ingest(topic, payload);
     if (this.current.rows.length >= this.d.batchRows) void this.flush();
     else this.timer ??= setTimeout(() => void this.flush(), this.d.flushMs);
-    if (this.current.rows.length + this.inFlight > this.d.maxPendingRows) {
+    if (this.pendingRows > this.d.maxPendingRows) {
       return new Promise<void>((resolve) => this.waiters.push(resolve));
     }
   }
@@ -134,18 +144,7 @@ export class Pipeline {
       });
       // Whatever its flag (a held tank still has a temperature), an impossible value never compensates.
       if (p.kind === "temp" && c.value !== null && isPhysical("temp", c.value)) this.d.temperatures.record(tank.id, s.ts, c.value);
-      this.current.rows.push({
-        v: 1,
-        probeId: p.id,
-        ts: s.ts,
-        raw: s.signal,
-        value: c.value,
-        quality: c.quality,
-        calibrationRunId: c.calibrationRunId,
-        kind: p.kind,
-        tankId: tank.id,
-        orgId: tank.orgId,
-      });
+      this.current.rows.push(tank.orgId, tank.id, p.id, p.kind, s.ts, s.signal, c.value, c.quality, c.calibrationRunId);
     }
   }
 
@@ -177,51 +176,56 @@ export class Pipeline {
     return this.flushing;
   }
 
+  private get hasPending() {
+    return this.current.rows.length > 0 || this.current.acks.length > 0 || this.retry !== null;
+  }
+
   private async loop() {
     do {
       await this.writeAll();
       // flush() resolves once the last batch's hook is done too; rows that came meanwhile go next.
       await this.hookRunning;
-    } while (this.current.rows.length || this.current.acks.length);
+    } while (this.hasPending);
   }
 
   private async writeAll() {
-    while (this.current.rows.length || this.current.acks.length) {
-      const batch = this.current;
-      this.current = { rows: [], acks: [] };
-      this.inFlight = batch.rows.length;
+    while (this.hasPending) {
+      const taken = this.current.rows.take();
+      const rows = this.retry ? this.retry.concat(taken) : taken;
+      const acks = this.current.acks;
+      this.retry = null;
+      this.current.acks = [];
+      this.inFlight = rows.length;
       const letters = this.d.refusals.take();
       const seen = this.takeSeen();
       const started = this.now();
-      let inserted: PendingRow[];
+      let inserted: PackedReadings;
       try {
-        inserted = await this.exclusive(() => this.d.writer.write(batch.rows, letters, seen));
+        inserted = await this.exclusive(() => this.d.writer.write(rows, letters, seen));
       } catch (err) {
         // Nothing was acknowledged: keep the batch, wait, and try again (the broker still holds
         // the messages, so even a restart now loses nothing).
         this.d.refusals.restore(letters);
         for (const [k, v] of seen) if (!this.seenPending.has(k)) this.seenPending.set(k, v);
-        this.current = { rows: batch.rows.concat(this.current.rows), acks: batch.acks.concat(this.current.acks) };
+        this.retry = rows;
+        this.current.acks = acks.concat(this.current.acks);
         this.inFlight = 0;
         if (this.now() - this.lastFailureLog > 5000) {
           this.lastFailureLog = this.now();
-          this.d.log.error(`commit of ${batch.rows.length} rows failed; retrying`, err);
+          this.d.log.error(`commit of ${rows.length} rows failed; retrying`, err);
         }
         await new Promise((r) => setTimeout(r, 250));
         continue;
       }
       const committedAt = this.now();
       this.inFlight = 0;
-      this.d.ackAll(batch.acks);
-      this.d.metrics.recordCommit(
-        inserted.map((r) => r.ts),
-        batch.rows.length,
-        committedAt,
-        committedAt - started,
-      );
-      for (const r of inserted) {
-        const first = this.committedSinceRefresh.get(r.probeId);
-        if (first === undefined || r.ts < first) this.committedSinceRefresh.set(r.probeId, r.ts);
+      this.d.ackAll(acks);
+      this.d.metrics.recordCommit(inserted, rows.length, committedAt, committedAt - started);
+      for (let i = 0; i < inserted.length; i++) {
+        const probeId = inserted.probeId(i);
+        const ts = inserted.ts(i);
+        const first = this.committedSinceRefresh.get(probeId);
+        if (first === undefined || ts < first) this.committedSinceRefresh.set(probeId, ts);
       }
       this.releaseWaiters();
       if (inserted.length) {
@@ -264,28 +268,27 @@ export class Pipeline {
   }
 
   private releaseWaiters(force = false) {
-    if (!force && this.current.rows.length + this.inFlight > this.d.maxPendingRows / 2) return;
+    if (!force && this.pendingRows > this.d.maxPendingRows / 2) return;
     const waiters = this.waiters;
     this.waiters = [];
     for (const w of waiters) w();
   }
 
   /** Publishes the new readings per tank on tw/v1/org/{orgId}/tank/{tankId}/reading. */
-  private stream(rows: PendingRow[]) {
-    const byTank = new Map<number, PendingRow[]>();
-    for (const r of rows) {
-      const list = byTank.get(r.tankId);
-      if (list) list.push(r);
-      else byTank.set(r.tankId, [r]);
+  private stream(rows: PackedReadings) {
+    const byTank = new Map<number, number[]>();
+    for (let i = 0; i < rows.length; i++) {
+      const tankId = rows.tankId(i);
+      const list = byTank.get(tankId);
+      if (list) list.push(i);
+      else byTank.set(tankId, [i]);
     }
-    for (const [tankId, list] of byTank) this.d.publish(topics.reading(list[0].orgId, tankId), encodeReadingBatch(tankId, list));
+    for (const [tankId, list] of byTank) this.d.publish(topics.reading(rows.orgId(list[0]), tankId), encodeReadingBatch(tankId, rows, list));
   }
 
-  private async runHook(rows: PendingRow[]) {
-    // The rows already have a CommittedReading's fields: handed on as they are, not copied.
-    const readings: readonly CommittedReading[] = rows;
+  private async runHook(rows: PackedReadings) {
     try {
-      await this.d.onCommitted(readings);
+      await this.d.onCommitted(rows);
     } catch (err) {
       this.d.metrics.hookErrors++;
       this.d.log.error("onReadingsCommitted failed", errorText(err));

@@ -1,6 +1,8 @@
 // Rollups: min, max, sum and count of the corrected value per probe and minute (`rollups`) and
 // per probe and hour (`rollups_hourly`), aggregated in memory per batch and merged into the
 // tables with upserts in the batch's transaction. Rows without a value are skipped.
+import type { PackedReadings } from "../packed-readings";
+
 export const MINUTE_MS = 60_000;
 export const HOUR_MS = 3_600_000;
 
@@ -35,11 +37,13 @@ function merge(into: Map<string, RollupDelta>, probeId: number, start: number, m
   }
 }
 
-export function aggregateRollups(rows: Iterable<{ probeId: number; ts: number; value: number | null }>): RollupDelta[] {
+/** The minute deltas of the rows whose flag is 1 (`isNew` null: of every row). */
+export function aggregateRollups(rows: PackedReadings, isNew: Uint8Array | null = null): RollupDelta[] {
   const byKey = new Map<string, RollupDelta>();
-  for (const r of rows) {
-    if (r.value === null) continue;
-    merge(byKey, r.probeId, minuteOf(r.ts), r.value, r.value, r.value, 1);
+  for (let i = 0; i < rows.length; i++) {
+    const value = rows.value(i);
+    if (value === null || (isNew !== null && !isNew[i])) continue;
+    merge(byKey, rows.probeId(i), minuteOf(rows.ts(i)), value, value, value, 1);
   }
   return [...byKey.values()];
 }

@@ -3,9 +3,9 @@
 // so the pipeline still acknowledges only committed messages. If the thread dies, the writes in
 // flight fail (the pipeline keeps their batch and retries) and the next write starts a new thread.
 import { ThreadCalls } from "../thread";
-import type { PendingRow, ReadingWriter, WriterOptions } from "./batch-writer";
+import type { ReadingWriter, WriterOptions } from "./batch-writer";
 import type { DeadLetter } from "./refusals";
-import { packReadings } from "../packed-readings";
+import type { PackedReadings } from "../packed-readings";
 import type { WriteReply, WriteRequest } from "./writer-protocol";
 
 export class ThreadedWriter implements ReadingWriter {
@@ -20,12 +20,11 @@ export class ThreadedWriter implements ReadingWriter {
     });
   }
 
-  async write(rows: PendingRow[], deadLetters: DeadLetter[], seen: Map<string, number>): Promise<PendingRow[]> {
-    const packed = packReadings(rows);
-    const reply = await this.calls.call((id) => ({ id, rows: packed, deadLetters, seen: [...seen] }), [packed.buffer as ArrayBuffer]);
+  async write(rows: PackedReadings, deadLetters: DeadLetter[], seen: Map<string, number>): Promise<PackedReadings> {
+    // Copied, not moved: the batch is streamed and handed to the alert rules after its commit.
+    const reply = await this.calls.call((id) => ({ id, rows: rows.data, deadLetters, seen: [...seen] }));
     if (!reply.ok) throw new Error(reply.error);
-    const inserted = reply.inserted;
-    return inserted === null ? rows : rows.filter((_, i) => inserted[i] === 1);
+    return rows.keep(reply.inserted);
   }
 
   close(): void {

@@ -1,5 +1,5 @@
 // What the ingest's main thread and its writer thread say to each other. Rows cross packed
-// (../packed-readings.ts).
+// (../packed-readings.ts): the array of a `PackedReadings`.
 import type { DeadLetter } from "./refusals";
 
 export interface WriteRequest {

@@ -4,7 +4,7 @@
 // One transaction per request, as before; the main thread acknowledges after the reply.
 import { parentPort, workerData } from "node:worker_threads";
 import { NativeWriter, type WriterOptions } from "./batch-writer";
-import { unpackReadings } from "../packed-readings";
+import { PackedReadings } from "../packed-readings";
 import type { WriteReply, WriteRequest } from "./writer-protocol";
 
 const port = parentPort;
@@ -19,15 +19,7 @@ port.on("message", (m: WriteRequest | "close") => {
   }
   let reply: WriteReply;
   try {
-    const rows = unpackReadings(m.rows);
-    const inserted = writer.write(rows, m.deadLetters, new Map(m.seen));
-    let flags: Uint8Array | null = null;
-    if (inserted.length !== rows.length) {
-      // Only after a redelivery: which rows were new, by their place in the batch.
-      const isNew = new Set(inserted);
-      flags = Uint8Array.from(rows, (r) => (isNew.has(r) ? 1 : 0));
-    }
-    reply = { id: m.id, ok: true, inserted: flags };
+    reply = { id: m.id, ok: true, inserted: writer.write(new PackedReadings(m.rows), m.deadLetters, new Map(m.seen)) };
   } catch (err) {
     reply = { id: m.id, ok: false, error: err instanceof Error ? err.message : String(err) };
   }

@@ -4,6 +4,7 @@
 // of its own; the figure is readings evaluated per second of wall time.
 import type { BenchSection, Metric } from "./metric";
 import { createSeededDatabase } from "../../tests/integration/helpers/database";
+import { PackedReadingsBuilder } from "../../ingest/packed-readings";
 
 const BATCH_STEPS = 20; // timestamps per batch: a 1 s flush of 20 Hz per probe, roughly
 
@@ -24,16 +25,17 @@ export async function benchAlerts(opts: { seconds?: number } = {}): Promise<Metr
     });
     const runner = createAlertRunner({ db: getDb(), publish: async () => undefined, log: () => undefined });
     let ts = db.seedNow + 60_000;
+    // Packed, as the ingest hands its batches to the rules.
     const batch = () => {
-      const out = [];
+      const out = new PackedReadingsBuilder();
       for (let s = 0; s < BATCH_STEPS; s++, ts += 1000) {
         for (const p of probes) {
           const wobble = Math.sin(ts / 300_000 + p.id) * 0.05;
           const value = p.mid + wobble * p.span;
-          out.push({ orgId: p.orgId, tankId: p.tankId, probeId: p.id, kind: p.kind, ts, raw: p.kind === "ph" ? (7 - value) * 59 + wobble * 10 : value + wobble * 5, value, quality: "ok" as const });
+          out.push(p.orgId, p.tankId, p.id, p.kind, ts, p.kind === "ph" ? (7 - value) * 59 + wobble * 10 : value + wobble * 5, value, "ok", null);
         }
       }
-      return out;
+      return out.take();
     };
     await runner.onReadings(batch()); // warm up: context, states
     let n = 0;

@@ -12,7 +12,8 @@ import { startBroker } from "./helpers/tidewell";
 import { useTestDatabase } from "./helpers/use-test-database";
 import { waitFor } from "../e2e/stack";
 import type { Db } from "@/db/client";
-import type { AlertRunner, CommittedReading } from "@/ingest/alerts/runner";
+import type { AlertRunner } from "@/ingest/alerts/runner";
+import { PackedReadingsBuilder, type PackedReadings } from "@/ingest/packed-readings";
 import type { DeviceCredential } from "@/db/seed";
 
 const MIN = 60_000;
@@ -53,8 +54,8 @@ async function mail(to: string, subjectPart: string): Promise<Sunk[]> {
   return messages.filter((m) => m.subject.includes(subjectPart));
 }
 
-function batchAt(at: number): CommittedReading[] {
-  const out: CommittedReading[] = [];
+function batchAt(at: number): PackedReadings {
+  const out = new PackedReadingsBuilder();
   for (const [name, tank] of tanks) {
     for (const kind of ["ph", "ec", "temp"] as const) {
       if (silent.has(`${name}:${kind}`)) continue;
@@ -62,19 +63,12 @@ function batchAt(at: number): CommittedReading[] {
       const wobble = Math.sin(at / (5 * MIN) + tank.id);
       const normal = (lo + hi) / 2 + wobble * (hi - lo) * 0.05;
       const value = faults.get(`${name}:${kind}`)?.(at) ?? normal;
-      out.push({
-        orgId: tank.orgId,
-        tankId: tank.id,
-        probeId: tank.probes[kind],
-        kind,
-        ts: at,
-        raw: kind === "ph" ? (7 - value) * 59 + wobble : kind === "ec" ? value + wobble * 3 : value,
-        value,
-        quality: held.has(name) || held.has(`${name}:${kind}`) ? "held" : "ok",
-      });
+      const raw = kind === "ph" ? (7 - value) * 59 + wobble : kind === "ec" ? value + wobble * 3 : value;
+      const quality = held.has(name) || held.has(`${name}:${kind}`) ? "held" : "ok";
+      out.push(tank.orgId, tank.id, tank.probes[kind], kind, at, raw, value, quality, null);
     }
   }
-  return out;
+  return out.take();
 }
 
 /** Advances simulated time to `end`: a batch of readings from every tank and a tick every 30 s. */

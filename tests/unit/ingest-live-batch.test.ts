@@ -1,9 +1,10 @@
 import { describe, expect, it } from "vitest";
 import { readingBatch } from "../../ingest/payloads";
-import type { PendingRow } from "../../ingest/worker/batch-writer";
+import type { CommittedReading } from "../../ingest/hooks";
+import { packReadings } from "../../ingest/packed-readings";
 import { encodeReadingBatch } from "../../ingest/worker/live-batch";
 
-const row = (over: Partial<PendingRow>): PendingRow => ({
+const row = (over: Partial<CommittedReading>): CommittedReading => ({
   v: 1,
   probeId: 7,
   ts: 1_764_000_000_123,
@@ -24,11 +25,17 @@ describe("encodeReadingBatch", () => {
       v: 1,
       readings: rows.map((r) => ({ v: 1, orgId: r.orgId, tankId: 2, probeId: r.probeId, kind: r.kind, ts: r.ts, raw: r.raw, value: r.value, quality: r.quality })),
     });
-    expect(encodeReadingBatch(2, rows)).toBe(expected);
-    expect(readingBatch.safeParse(JSON.parse(encodeReadingBatch(2, rows))).success).toBe(true);
+    const all = rows.map((_, i) => i);
+    expect(encodeReadingBatch(2, packReadings(rows), all)).toBe(expected);
+    expect(readingBatch.safeParse(JSON.parse(encodeReadingBatch(2, packReadings(rows), all))).success).toBe(true);
+  });
+
+  it("writes only the readings at the given places, in their order", () => {
+    const rows = [row({ probeId: 1 }), row({ probeId: 2, tankId: 5 }), row({ probeId: 3 })];
+    expect(JSON.parse(encodeReadingBatch(2, packReadings(rows), [2, 0])).readings.map((r: { probeId: number }) => r.probeId)).toEqual([3, 1]);
   });
 
   it("writes a non-finite number as null, as JSON does", () => {
-    expect(JSON.parse(encodeReadingBatch(2, [row({ value: Number.NaN })])).readings[0].value).toBeNull();
+    expect(JSON.parse(encodeReadingBatch(2, packReadings([row({ value: Number.NaN })]), [0])).readings[0].value).toBeNull();
   });
 });

@@ -11,8 +11,8 @@ import { HoldBook } from "@/ingest/worker/holds";
 import { TankTemperatures } from "@/ingest/worker/temperatures";
 import { Refusals } from "@/ingest/worker/refusals";
 import { IngestMetrics } from "@/ingest/worker/health";
-import type { PendingRow, ReadingWriter } from "@/ingest/worker/batch-writer";
-import type { CommittedReading } from "@/ingest/hooks";
+import type { ReadingWriter } from "@/ingest/worker/batch-writer";
+import type { PackedReadings } from "@/ingest/packed-readings";
 
 const CONTROLLER = "ctl-unit";
 const TOPIC = `tw/v1/dev/${CONTROLLER}/raw`;
@@ -49,7 +49,7 @@ describe("the pipeline's hooks", () => {
     const hookGates = [gate(), gate(), gate()];
     let writes = 0;
     const writer: ReadingWriter = {
-      async write(rows: PendingRow[]) {
+      async write(rows: PackedReadings) {
         const n = ++writes;
         log.push(`write ${n} start`);
         await writeGates[n - 1].opened;
@@ -61,10 +61,10 @@ describe("the pipeline's hooks", () => {
     let running = 0;
     let most = 0;
     const hooked: number[][] = [];
-    const onCommitted = async (readings: readonly CommittedReading[]) => {
+    const onCommitted = async (readings: PackedReadings) => {
       running++;
       most = Math.max(most, running);
-      const n = hooked.push(readings.map((r) => r.ts));
+      const n = hooked.push(Array.from({ length: readings.length }, (_, i) => readings.ts(i)));
       log.push(`hook ${n} start`);
       await hookGates[n - 1].opened;
       log.push(`hook ${n} end`);
@@ -80,7 +80,7 @@ describe("the pipeline's hooks", () => {
       writer,
       metrics: new IngestMetrics(),
       publish: () => undefined,
-      ackAll: (acks) => acks.forEach((a) => a()),
+      ackAll: (acks) => acked.push(...acks),
       onCommitted,
       log: { info: () => undefined, warn: () => undefined, error: () => undefined },
       flushMs: 5,
@@ -90,7 +90,7 @@ describe("the pipeline's hooks", () => {
     });
     const t0 = Date.now() - 60_000;
     const send = (k: number) =>
-      pipeline.accept(TOPIC, Buffer.from(JSON.stringify({ v: 1, seq: k, samples: [{ serial: "TS-1", ts: t0 + k * 1000, signal: 20 + k / 10 }] })), () => acked.push(k));
+      pipeline.accept(TOPIC, Buffer.from(JSON.stringify({ v: 1, seq: k, samples: [{ serial: "TS-1", ts: t0 + k * 1000, signal: 20 + k / 10 }] })), k);
 
     send(0);
     const flushed = pipeline.flush();
