@@ -10,7 +10,7 @@ import { errorText, logger } from "./log";
 import { openReadingWriter } from "./worker/batch-writer";
 import { CalibrationBook } from "./worker/calibrations";
 import { ingestConfig } from "./worker/config";
-import { IngestMetrics, writeWorkerStatus } from "./worker/health";
+import { IngestMetrics } from "./worker/health";
 import { HoldBook } from "./worker/holds";
 import { openIngestSession } from "./worker/mqtt-session";
 import { Pipeline } from "./worker/pipeline";
@@ -104,7 +104,7 @@ const healthTimer = setInterval(() => {
     refusals: refusals.nonZero(),
     refusalsTotal: refusals.total,
   });
-  writeWorkerStatus(db, config.workerName, now, stats).catch((err: unknown) => log.warn(`health snapshot not written: ${errorText(err)}`));
+  writer.writeStatus(config.workerName, now, JSON.stringify(stats)).catch((err: unknown) => log.warn(`health snapshot not written: ${errorText(err)}`));
 }, config.healthMs);
 
 const runRetention = async () => {

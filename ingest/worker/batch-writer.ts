@@ -14,10 +14,17 @@ import type { DeadLetter } from "./refusals";
 import { ThreadedWriter } from "./threaded-writer";
 import { aggregateRollups, hourlyOf, hourlyUpsertSql, rollupUpsertSql, type RollupDelta } from "./rollups";
 import type { PackedReadings } from "../packed-readings";
+import { UPSERT_WORKER_STATUS } from "./health";
 
 export interface ReadingWriter {
   /** Writes one batch in one transaction; resolves with the rows that were new. */
   write(rows: PackedReadings, deadLetters: DeadLetter[], seen: Map<string, number>): Promise<PackedReadings>;
+  /**
+   * Writes the health snapshot (`worker_status`) between batches. Through the writer, so the
+   * main thread never waits for SQLite's lock while a batch commits: it would read no messages
+   * meanwhile.
+   */
+  writeStatus(name: string, at: number, statsJson: string): Promise<void>;
   close(): void;
 }
 
@@ -59,6 +66,7 @@ export class NativeWriter {
   private readonly letter: Database.Statement<unknown[]>;
   private readonly prune: Database.Statement<unknown[]>;
   private readonly touch: Database.Statement<unknown[]>;
+  private readonly status: Database.Statement<unknown[]>;
   private readonly tx: Record<"begin" | "commit" | "savepoint" | "release" | "rollbackTo", Database.Statement<unknown[]>>;
 
   constructor(private readonly o: WriterOptions) {
@@ -69,6 +77,7 @@ export class NativeWriter {
     this.letter = this.db.prepare(INSERT_DEAD_LETTER);
     this.prune = this.db.prepare(PRUNE_DEAD_LETTERS);
     this.touch = this.db.prepare(TOUCH_DEVICE);
+    this.status = this.db.prepare(UPSERT_WORKER_STATUS);
     this.tx = {
       begin: this.db.prepare("BEGIN IMMEDIATE"),
       commit: this.db.prepare("COMMIT"),
@@ -136,6 +145,10 @@ export class NativeWriter {
     return isNew;
   }
 
+  writeStatus(name: string, at: number, statsJson: string): void {
+    this.status.run(name, at, statsJson);
+  }
+
   close(): void {
     this.db.close();
   }
@@ -194,6 +207,10 @@ class ClientWriter implements ReadingWriter {
       tx.close();
     }
     return rows.keep(isNew);
+  }
+
+  async writeStatus(name: string, at: number, statsJson: string): Promise<void> {
+    await this.client.execute({ sql: UPSERT_WORKER_STATUS, args: [name, at, statsJson] });
   }
 
   close(): void {

@@ -1,6 +1,5 @@
 // The ingest's counters and the once-a-second snapshot in worker_status (read by
 // GET /api/ingest/health and by the bench).
-import type { Client as DbClient } from "@libsql/client";
 import { ingestStats, type IngestStats } from "../payloads";
 import type { PackedReadings } from "../packed-readings";
 
@@ -66,10 +65,6 @@ export class IngestMetrics {
   }
 }
 
-export async function writeWorkerStatus(db: DbClient, name: string, at: number, stats: IngestStats): Promise<void> {
-  await db.execute({
-    sql: `INSERT INTO worker_status (name, updated_at, stats) VALUES (?, ?, ?)
-          ON CONFLICT(name) DO UPDATE SET updated_at = excluded.updated_at, stats = excluded.stats`,
-    args: [name, at, JSON.stringify(stats)],
-  });
-}
+/** The snapshot's row: name, updated_at, stats (JSON). The writer runs it (./batch-writer.ts). */
+export const UPSERT_WORKER_STATUS = `INSERT INTO worker_status (name, updated_at, stats) VALUES (?, ?, ?)
+  ON CONFLICT(name) DO UPDATE SET updated_at = excluded.updated_at, stats = excluded.stats`;

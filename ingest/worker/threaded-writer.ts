@@ -22,9 +22,14 @@ export class ThreadedWriter implements ReadingWriter {
 
   async write(rows: PackedReadings, deadLetters: DeadLetter[], seen: Map<string, number>): Promise<PackedReadings> {
     // Copied, not moved: the batch is streamed and handed to the alert rules after its commit.
-    const reply = await this.calls.call((id) => ({ id, rows: rows.data, deadLetters, seen: [...seen] }));
+    const reply = await this.calls.call((id) => ({ id, kind: "batch", rows: rows.data, deadLetters, seen: [...seen] }));
     if (!reply.ok) throw new Error(reply.error);
     return rows.keep(reply.inserted);
+  }
+
+  async writeStatus(name: string, at: number, statsJson: string): Promise<void> {
+    const reply = await this.calls.call((id) => ({ id, kind: "status", name, at, statsJson }));
+    if (!reply.ok) throw new Error(reply.error);
   }
 
   close(): void {

@@ -19,7 +19,12 @@ port.on("message", (m: WriteRequest | "close") => {
   }
   let reply: WriteReply;
   try {
-    reply = { id: m.id, ok: true, inserted: writer.write(new PackedReadings(m.rows), m.deadLetters, new Map(m.seen)) };
+    if (m.kind === "status") {
+      writer.writeStatus(m.name, m.at, m.statsJson);
+      reply = { id: m.id, ok: true, inserted: null };
+    } else {
+      reply = { id: m.id, ok: true, inserted: writer.write(new PackedReadings(m.rows), m.deadLetters, new Map(m.seen)) };
+    }
   } catch (err) {
     reply = { id: m.id, ok: false, error: err instanceof Error ? err.message : String(err) };
   }

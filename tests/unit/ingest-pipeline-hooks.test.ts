@@ -56,6 +56,7 @@ describe("the pipeline's hooks", () => {
         log.push(`write ${n} end`);
         return rows;
       },
+      async writeStatus() {},
       close() {},
     };
     let running = 0;
