@@ -2,6 +2,13 @@
 // tick, turns the alerts into incidents (state persisted in the same transaction, so a
 // restart never fires twice), mails whoever is on shift, escalates, expires holds, keeps
 // the controllers' dosing commands in step with the holds, and sends the morning digest.
+//
+// A batch that raises no event changes only the rules' running state (windows, counts, last
+// values). That is saved at most once a second, with the next batch or tick after it, instead of
+// with every batch: the ingest commits up to twenty batches a second, and each save was a write
+// transaction competing with the ingest's own for SQLite's one write lock. A crash loses at most
+// that second of running state, never a firing or a clearing: every event is saved with the
+// state that raised it.
 import { and, eq, isNotNull, isNull, lte, ne } from "drizzle-orm";
 import type { Db } from "../../db/client";
 import { incidentEvents, incidents, sites } from "../../db/schema";
@@ -38,6 +45,8 @@ export interface AlertRunner {
 export const AUTO_RESOLVE_AFTER_MS = 5 * 60_000;
 /** How long tank, rule and calibration data are reused between batches (every tick reloads them). */
 const CONTEXT_TTL_MS = 10_000;
+/** How long running state that raised no event may wait to be saved. */
+const SAVE_STATE_EVERY_MS = 1_000;
 const PUBLISH_WAIT_MS = 5_000;
 
 /** Causes that page nobody and never escalate: the morning digest lists them. */
@@ -65,6 +74,9 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
   let ctx: AlertContext | null = null;
   let ctxAt = 0;
   const states = new Map<string, unknown>();
+  /** Keys whose state in `states` is newer than the database's. */
+  const unsaved = new Set<string>();
+  let savedAt = Number.NEGATIVE_INFINITY;
   let chain: Promise<unknown> = Promise.resolve();
 
   // Batches and ticks touch the same per-probe state: run them one at a time.
@@ -107,16 +119,31 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
     }
   }
 
-  /** Persists states and incident changes in one transaction, then announces and mails. */
-  async function commit(c: AlertContext, working: Map<string, unknown>, eventsByTank: Map<number, AlertEvent[]>, at: number) {
+  /**
+   * Persists states and incident changes in one transaction, then announces and mails. A batch's
+   * states may wait when it raised no event (see the top of this file); a tick saves everything.
+   */
+  async function commit(c: AlertContext, working: Map<string, unknown>, eventsByTank: Map<number, AlertEvent[]>, at: number, mayWait = false) {
+    if (mayWait && eventsByTank.size === 0 && clock() - savedAt < SAVE_STATE_EVERY_MS) {
+      for (const [k, v] of working) {
+        states.set(k, v);
+        unsaved.add(k);
+      }
+      return;
+    }
     const applied: Applied = { opened: [], changes: [] };
+    const toSave = new Map<string, unknown>();
+    for (const k of unsaved) toSave.set(k, states.get(k));
+    for (const [k, v] of working) toSave.set(k, v);
     await db.transaction(async (tx) => {
-      await writeStates(tx, [...working], at);
+      await writeStates(tx, [...toSave], at);
       for (const [tankId, events] of eventsByTank) {
         const tank = c.tanks.get(tankId);
         if (tank) await applyAlertEvents(tx, tank, events, (cause) => firingOnTank(c, tank, cause, working), applied);
       }
     });
+    savedAt = clock();
+    unsaved.clear();
     for (const [k, v] of working) states.set(k, v);
     await announce(applied.changes.map((ch) => ({ ...ch, id: ch.incidentId })));
     const mailAt = clock();
@@ -202,7 +229,7 @@ export function createAlertRunner(o: AlertRunnerOptions): AlertRunner {
       working.set(p.key, result.state);
       if (result.events.length) eventsByTank.set(p.tank.id, [...(eventsByTank.get(p.tank.id) ?? []), ...result.events]);
     }
-    await commit(c, working, eventsByTank, clock());
+    await commit(c, working, eventsByTank, clock(), true);
   }
 
   async function expireHolds(c: AlertContext, now: number): Promise<boolean> {

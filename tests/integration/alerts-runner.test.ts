@@ -304,6 +304,25 @@ describe("alert runner", () => {
     faults.delete("G2:ph");
   });
 
+  it("saves running state that raised no event at most once a second, and all of it on a tick", async () => {
+    const probe = `probe:${tanks.get("G1")!.probes.ph}`;
+    const savedAt = async () => (await db.select().from(schema.alertState).where(eq(schema.alertState.key, probe)))[0]?.updatedAt;
+    runner = newRunner();
+    await runner.onReadings(batchAt(t)); // a new runner saves its first batch
+    const first = t;
+    expect(await savedAt()).toBe(first);
+    t += 400;
+    await runner.onReadings(batchAt(t)); // quiet, and within the second: waits
+    expect(await savedAt()).toBe(first);
+    t += 700;
+    await runner.onReadings(batchAt(t)); // a second and more since the save
+    expect(await savedAt()).toBe(t);
+    t += 100;
+    await runner.onReadings(batchAt(t));
+    await runner.tick(t); // a tick saves what waited
+    expect(await savedAt()).toBe(t);
+  });
+
   it("skips users who turned e-mail notifications off, and says so in the timeline", async () => {
     await db.update(schema.users).set({ notifyEmail: false }).where(eq(schema.users.role, "night_manager"));
     faults.set("G3:ph", ramp(t, 6.0, 6.9));
