@@ -4,7 +4,7 @@ import type { Client as DbClient } from "@libsql/client";
 import { z } from "zod";
 import { PHYSICAL_RANGES } from "../../lib/alerts/ranges";
 
-const KEEP = 64;
+const KEEP = 64; // samples of history kept per tank, at least
 
 interface Point {
   ts: number;
@@ -22,7 +22,8 @@ export class TankTemperatures {
     while (i > 0 && list[i - 1].ts > ts) i--;
     if (i > 0 && list[i - 1].ts === ts) list[i - 1] = { ts, value };
     else list.splice(i, 0, { ts, value });
-    if (list.length > KEEP) list.splice(0, list.length - KEEP);
+    // Trimmed a KEEP at a time, not one sample at a time: that moved the whole list for every sample.
+    if (list.length > 2 * KEEP) list.splice(0, list.length - KEEP);
     this.byTank.set(tankId, list);
   }
 
