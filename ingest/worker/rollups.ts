@@ -24,8 +24,14 @@ export function hourOf(ts: number): number {
   return Math.floor(ts / HOUR_MS) * HOUR_MS;
 }
 
-function merge(into: Map<string, RollupDelta>, probeId: number, start: number, min: number, max: number, sum: number, count: number) {
-  const k = `${probeId}:${start}`;
+/**
+ * One number per probe and minute (or hour) start, not a string built for every row: exact while
+ * probe ids stay below 2^27 and minutes since 1970 below 2^26 (the year 2097).
+ */
+const keyOf = (probeId: number, start: number) => probeId * 67_108_864 + start / MINUTE_MS;
+
+function merge(into: Map<number, RollupDelta>, probeId: number, start: number, min: number, max: number, sum: number, count: number) {
+  const k = keyOf(probeId, start);
   const d = into.get(k);
   if (d) {
     if (min < d.min) d.min = min;
@@ -39,7 +45,7 @@ function merge(into: Map<string, RollupDelta>, probeId: number, start: number, m
 
 /** The minute deltas of the rows whose flag is 1 (`isNew` null: of every row). */
 export function aggregateRollups(rows: PackedReadings, isNew: Uint8Array | null = null): RollupDelta[] {
-  const byKey = new Map<string, RollupDelta>();
+  const byKey = new Map<number, RollupDelta>();
   for (let i = 0; i < rows.length; i++) {
     const value = rows.value(i);
     if (value === null || (isNew !== null && !isNew[i])) continue;
@@ -50,7 +56,7 @@ export function aggregateRollups(rows: PackedReadings, isNew: Uint8Array | null 
 
 /** The hourly deltas of a batch's minute deltas (`minute` then holds the hour start). */
 export function hourlyOf(minutes: readonly RollupDelta[]): RollupDelta[] {
-  const byKey = new Map<string, RollupDelta>();
+  const byKey = new Map<number, RollupDelta>();
   for (const d of minutes) merge(byKey, d.probeId, hourOf(d.minute), d.min, d.max, d.sum, d.count);
   return [...byKey.values()];
 }
