@@ -42,6 +42,8 @@ interface Batch {
   rows: PackedReadingsBuilder;
   /** Numbers, not a closure a message: they live as long as the batch (see ../packed-readings.ts). */
   acks: AckToken[];
+  /** Messages in the batch, QoS 0 ones (no acknowledgement) included. */
+  messages: number;
 }
 
 const DAY_MS = 86_400_000;
@@ -50,7 +52,7 @@ const SEEN_EVERY_MS = 10_000; // how often a device's last_seen_at is written at
 const ORDER: Record<ProbeInfo["kind"], number> = { temp: 0, ph: 1, ec: 2 };
 
 export class Pipeline {
-  private current: Batch = { rows: new PackedReadingsBuilder(), acks: [] };
+  private current: Batch = { rows: new PackedReadingsBuilder(), acks: [], messages: 0 };
   /** The rows of a batch whose commit failed, written again before the rows that came since. */
   private retry: PackedReadings | null = null;
   private inFlight = 0; // rows of the batch being written
@@ -78,7 +80,7 @@ export class Pipeline {
   }
 
   get queueDepth() {
-    return { samples: this.pendingRows, messages: this.current.acks.length };
+    return { samples: this.pendingRows, messages: this.current.messages };
   }
 
   /**
@@ -88,6 +90,7 @@ export class Pipeline {
   accept(topic: string, payload: Buffer, ack: AckToken | null): Promise<void> | void {
     const m = this.d.metrics;
     m.messagesTotal++;
+    this.current.messages++;
     if (ack !== null) this.current.acks.push(ack);
     this.ingest(topic, payload);
     if (this.current.rows.length >= this.d.batchRows) void this.flush();
@@ -177,7 +180,8 @@ export class Pipeline {
   }
 
   private get hasPending() {
-    return this.current.rows.length > 0 || this.current.acks.length > 0 || this.retry !== null;
+    // A message whose every sample was refused still makes a batch: its refusals are written.
+    return this.current.rows.length > 0 || this.current.messages > 0 || this.retry !== null;
   }
 
   private async loop() {
@@ -193,8 +197,10 @@ export class Pipeline {
       const taken = this.current.rows.take();
       const rows = this.retry ? this.retry.concat(taken) : taken;
       const acks = this.current.acks;
+      const messages = this.current.messages;
       this.retry = null;
       this.current.acks = [];
+      this.current.messages = 0;
       this.inFlight = rows.length;
       const letters = this.d.refusals.take();
       const seen = this.takeSeen();
@@ -209,6 +215,7 @@ export class Pipeline {
         for (const [k, v] of seen) if (!this.seenPending.has(k)) this.seenPending.set(k, v);
         this.retry = rows;
         this.current.acks = acks.concat(this.current.acks);
+        this.current.messages += messages;
         this.inFlight = 0;
         if (this.now() - this.lastFailureLog > 5000) {
           this.lastFailureLog = this.now();
