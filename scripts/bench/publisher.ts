@@ -26,13 +26,17 @@ export interface PublisherTarget {
 }
 
 const PUBLISH_QOS1 = 0x32;
-const READING_KEY = Buffer.from('"probeId":');
+const CLOSING_BRACE = 0x7d;
 
-/** Counts the readings in a live batch without parsing it: one `"probeId":` per reading. */
+/**
+ * Counts the readings in a live batch without parsing it: each reading is an object of numbers and
+ * fixed words, so it closes one brace, and the batch itself one more. A search for one byte (memchr)
+ * costs a tenth of a search for `"probeId":` at these rates.
+ */
 function countReadings(payload: Buffer): number {
-  let n = 0;
-  for (let at = payload.indexOf(READING_KEY); at !== -1; at = payload.indexOf(READING_KEY, at + READING_KEY.length)) n++;
-  return n;
+  let n = -1;
+  for (let at = payload.indexOf(CLOSING_BRACE); at !== -1; at = payload.indexOf(CLOSING_BRACE, at + 1)) n++;
+  return Math.max(0, n);
 }
 
 /** MQTT's variable-length "remaining length" field. */
@@ -65,6 +69,35 @@ function publishPacket(topic: Buffer, packetId: number, payload: string): Buffer
   return packet;
 }
 
+/**
+ * What a device connection hears from the broker, read by hand: a CONNACK, then only PUBACKs (it
+ * subscribes to nothing), each four bytes. mqtt-packet's parser made an object of every PUBACK.
+ */
+class AckReader {
+  private rest: Buffer | null = null;
+
+  constructor(private readonly onConnack: (returnCode: number) => void) {}
+
+  /** Reads a chunk; returns the PUBACKs completed in it. */
+  read(chunk: Buffer): number {
+    const buf = this.rest ? Buffer.concat([this.rest, chunk]) : chunk;
+    this.rest = null;
+    let acks = 0;
+    let at = 0;
+    // Both packets are a type byte, a one-byte remaining length of 2, and two bytes.
+    while (at + 4 <= buf.length) {
+      const type = buf[at] >> 4;
+      if (buf[at + 1] !== 2) throw new Error(`the broker sent a packet of type ${type} with ${buf[at + 1]} bytes; a device expects only CONNACK and PUBACK`);
+      if (type === 4) acks++;
+      else if (type === 2) this.onConnack(buf[at + 3]);
+      else throw new Error(`the broker sent a packet of type ${type}; a device expects only CONNACK and PUBACK`);
+      at += 4;
+    }
+    if (at < buf.length) this.rest = buf.subarray(at);
+    return acks;
+  }
+}
+
 class ControllerConnection {
   private socket: net.Socket | null = null;
   private readonly topic: Buffer;
@@ -95,22 +128,13 @@ class ControllerConnection {
   connect(url: URL, onAcks: (conn: ControllerConnection, n: number) => void): Promise<void> {
     return new Promise((resolve, reject) => {
       const socket = net.connect({ host: url.hostname, port: Number(url.port), noDelay: true });
-      const parser = mqttPacket.parser({ protocolVersion: 4 });
-      let acks = 0;
-      parser.on("packet", (p) => {
-        if (p.cmd === "puback") acks++;
-        else if (p.cmd === "connack") {
-          if (p.returnCode === 0) resolve();
-          else reject(new Error(`the broker refused ${this.t.controllerId} (return code ${p.returnCode})`));
-        }
+      const reader = new AckReader((returnCode) => {
+        if (returnCode === 0) resolve();
+        else reject(new Error(`the broker refused ${this.t.controllerId} (return code ${returnCode})`));
       });
-      socket.on("data", (chunk) => {
-        parser.parse(chunk);
-        if (acks) {
-          const n = acks;
-          acks = 0;
-          onAcks(this, n);
-        }
+      socket.on("data", (chunk: Buffer) => {
+        const acks = reader.read(chunk);
+        if (acks) onAcks(this, acks);
       });
       socket.once("error", reject);
       socket.write(
