@@ -4,7 +4,8 @@
 // an ingest restart it may hold minutes of backlog: the scans then cost more than everything
 // else the broker does. This store keeps the same queue in insertion-ordered Maps with
 // indexes by (broker id, broker counter) and by message id, so each of those steps is O(1).
-// It replaces only the outgoing-queue methods; everything else stays aedes-persistence's.
+// It replaces only the outgoing-queue methods (through `withOverrides`); everything else stays
+// aedes-persistence's.
 import { Readable } from "node:stream";
 
 /** The fields of an aedes packet that a queued copy keeps (as aedes-packet's constructor does). */
@@ -150,11 +151,11 @@ export class OutgoingStore {
 }
 
 /**
- * Wraps a persistence so the outgoing-queue methods go to `store`; every other member is the
- * original's (functions bound to it, so `setup` stays an AsyncFunction as aedes requires).
+ * Wraps a persistence so the methods named in `overrides` go there (the outgoing queue's to an
+ * `OutgoingStore`'s `methods`, for instance); every other member is the original's (functions bound
+ * to it, so `setup` stays an AsyncFunction as aedes requires).
  */
-export function withOutgoingStore<T extends object>(persistence: T, store: OutgoingStore): T {
-  const overrides = store.methods as Record<string, unknown>;
+export function withOverrides<T extends object>(persistence: T, overrides: Record<string, unknown>): T {
   // aedes looks its persistence's methods up for every message: each is bound once, not per call.
   const bound = new Map<PropertyKey, { fn: (...args: unknown[]) => unknown; bound: unknown }>();
   return new Proxy(persistence, {

@@ -12,7 +12,8 @@ import { authenticate } from "./authenticate";
 import { ConnectThrottle, DEFAULT_THROTTLE } from "./connect-throttle";
 import { DeviceDirectory } from "./device-directory";
 import { describePrincipal, type Principal } from "./principals";
-import { OutgoingStore, withOutgoingStore } from "./outgoing-store";
+import { OutgoingStore, withOverrides } from "./outgoing-store";
+import { cachedSubscriptions, cacheRouterMatches } from "./topic-match-cache";
 import { restoreState, saveState, type SpoolPersistence } from "./state-file";
 
 export interface BrokerOptions {
@@ -67,8 +68,9 @@ export async function startBroker(opts: BrokerOptions): Promise<RunningBroker> {
   };
 
   const outgoing = new OutgoingStore();
+  const memory = memoryPersistence();
   const broker = await Aedes.createBroker({
-    persistence: withOutgoingStore(memoryPersistence(), outgoing),
+    persistence: withOverrides(memory, { ...outgoing.methods, ...cachedSubscriptions(memory as unknown as Record<string, unknown>) }),
     drainTimeout: 30_000,
     authenticate(client, username, password, done) {
       const from = remoteAddress(client);
@@ -109,6 +111,7 @@ export async function startBroker(opts: BrokerOptions): Promise<RunningBroker> {
       done(null, sub);
     },
   });
+  cacheRouterMatches((broker as unknown as { mq: unknown }).mq); // aedes keeps its router here, untyped
 
   broker.on("client", (client) => {
     clients.add(client);
