@@ -54,7 +54,11 @@ export const ingestSection: BenchSection = {
       const publisher = new LoadPublisher(broker.url, targets);
       await publisher.start();
 
-      // Warm up, then measure committed rows over the window from the worker's own counters.
+      // Warm up, then measure committed rows over the window from the worker's own counters (the
+      // writer thread writes them; under a profiler its start can take seconds).
+      for (const deadline = Date.now() + 30_000; !(await readIngestStats(client)); await sleep(100)) {
+        if (Date.now() > deadline) throw new Error("the ingest wrote no health snapshot within 30 s");
+      }
       await sleep(3000);
       const first = await readIngestStats(client);
       const cpu0 = cpu();
