@@ -30,8 +30,6 @@ export class PackedReadings {
     if (data.length % FIELDS !== 0) throw new Error(`packed readings have ${FIELDS} numbers each, not ${data.length} in all`);
   }
 
-  static readonly EMPTY = new PackedReadings(new Float64Array(0));
-
   get length(): number {
     return this.data.length / FIELDS;
   }
@@ -63,7 +61,7 @@ export class PackedReadings {
     return orNull(this.data[i * FIELDS + RUN]);
   }
 
-  /** Reading `i` as an object (for the slow paths: a libSQL server, tests). */
+  /** Reading `i` as an object (for tests and tools; the ingest reads the fields it needs). */
   at(i: number): CommittedReading {
     return {
       v: 1,

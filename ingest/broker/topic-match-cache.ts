@@ -64,6 +64,11 @@ export function cachedSubscriptions(persistence: Record<string, unknown>): Recor
   };
   const byTopic = original("subscriptionsByTopic");
   const answers = new TopicAnswers<Promise<unknown>>();
+  const lookUp = (topic: string) => {
+    const answer = byTopic(topic);
+    answer.catch(() => answers.clear()); // a lookup that failed is not kept
+    return answer;
+  };
   const changing =
     (name: string): Method =>
     (...args) => {
@@ -71,12 +76,7 @@ export function cachedSubscriptions(persistence: Record<string, unknown>): Recor
       return original(name)(...args).finally(() => answers.clear());
     };
   return {
-    subscriptionsByTopic: (async (topic: string) => {
-      const answer = answers.get(topic, byTopic);
-      // A lookup that failed is not kept.
-      answer.catch(() => answers.clear());
-      return answer;
-    }) as Method,
+    subscriptionsByTopic: ((topic: string) => answers.get(topic, lookUp)) as Method,
     addSubscriptions: changing("addSubscriptions"),
     removeSubscriptions: changing("removeSubscriptions"),
     cleanSubscriptions: changing("cleanSubscriptions"),
