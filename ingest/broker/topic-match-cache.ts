@@ -37,7 +37,9 @@ export function cacheRouterMatches(mq: unknown): void {
   if (!matcher || typeof matcher.match !== "function" || typeof matcher.add !== "function" || typeof matcher.remove !== "function") {
     throw new Error("mqemitter internals changed: its _matcher has no match, add and remove; the topic cache cannot work");
   }
-  const { match, add, remove } = { match: matcher.match.bind(matcher), add: matcher.add.bind(matcher), remove: matcher.remove.bind(matcher) };
+  const match = matcher.match.bind(matcher);
+  const add = matcher.add.bind(matcher);
+  const remove = matcher.remove.bind(matcher);
   const answers = new TopicAnswers<unknown>();
   matcher.match = (topic: string) => answers.get(topic, match);
   matcher.add = (...args: unknown[]) => {
@@ -69,12 +71,14 @@ export function cachedSubscriptions(persistence: Record<string, unknown>): Recor
     answer.catch(() => answers.clear()); // a lookup that failed is not kept
     return answer;
   };
-  const changing =
-    (name: string): Method =>
-    (...args) => {
+  // Looked up and bound once, so a persistence without them fails at start, not at a subscribe.
+  const changing = (name: string): Method => {
+    const change = original(name);
+    return (...args) => {
       answers.clear();
-      return original(name)(...args).finally(() => answers.clear());
+      return change(...args).finally(() => answers.clear());
     };
+  };
   return {
     subscriptionsByTopic: ((topic: string) => answers.get(topic, lookUp)) as Method,
     addSubscriptions: changing("addSubscriptions"),
